@@ -1,0 +1,80 @@
+/**
+ * @file rock.h
+ * @brief Thermal properties of one rock type and its specific enthalpy h(T).
+ *
+ * Temperatures are in °C throughout the core (the empirical laws below are written in °C;
+ * radiation converts to kelvin where it needs to). Everything else is SI.
+ *
+ * Specific enthalpy, relative to 0 °C:  h(T) = ∫_0^T c(T') dT' + L f(T),
+ * where f is the melt fraction. h is strictly increasing, so T(h) is well defined.
+ */
+#pragma once
+
+#include <stdexcept>
+#include <string>
+
+namespace ember
+{
+
+/// Thrown for invalid property values; the message names the rock type and the property.
+class PropertyError : public std::runtime_error
+{
+public:
+  using std::runtime_error::runtime_error;
+};
+
+/// Thermal conductivity law k(T) [W/(m·K)], T in °C.
+struct Conductivity
+{
+  enum class Law
+  {
+    Constant,             ///< k = k_ref
+    VosteenSchellschmidt, ///< k = k0 / (0.99 + T (a − b/k0)), k0 from k_ref = k(25 °C)
+    ZothHaenel            ///< k = A + B / (350 + T)
+  };
+  Law law = Law::Constant;
+  double k_ref = 2.5;       ///< constant value, or the 25 °C value for Vosteen & Schellschmidt
+  bool crystalline = true;  ///< Vosteen & Schellschmidt coefficient set (else sedimentary)
+  double a = 0.0, b = 0.0;  ///< Zoth & Haenel A [W/(m·K)] and B [W/m]
+  double k_min = 0.5;       ///< floor applied at high temperature where the fits run out [W/(m·K)]
+};
+
+/// Specific heat capacity law c(T) [J/(kg·K)], T in °C.
+struct HeatCapacity
+{
+  enum class Law
+  {
+    Constant,     ///< c = c_ref
+    WaplesWaples  ///< c = c_ref · cN(T)/cN(20 °C), cN the normalised polynomial; held at 1000 °C above
+  };
+  Law law = Law::Constant;
+  double c_ref = 1000.0; ///< constant value, or the 20 °C value
+};
+
+struct Rock
+{
+  std::string name;
+  double density = 2700.0;          ///< [kg/m³]
+  Conductivity conductivity;
+  HeatCapacity heat_capacity;
+  double latent_heat = 0.0;         ///< of crystallisation [J/kg]; 0 = no phase change
+  double solidus = 1000.0;          ///< [°C]
+  double liquidus = 1200.0;         ///< [°C]
+  double heat_production = 0.0;     ///< radiogenic [W/m³]
+  double emissivity = 0.95;         ///< surface emissivity [-]
+};
+
+/// Throws PropertyError naming the rock and the property for NaN/negative/out-of-range values.
+void validate(const Rock& rock);
+
+double conductivity(const Rock& rock, double T);      ///< [W/(m·K)]
+double heat_capacity(const Rock& rock, double T);     ///< sensible c(T) [J/(kg·K)]
+double melt_fraction(const Rock& rock, double T);     ///< linear between solidus and liquidus
+double sensible_enthalpy(const Rock& rock, double T); ///< ∫_0^T c dT' [J/kg]
+double specific_enthalpy(const Rock& rock, double T); ///< sensible + L f(T) [J/kg]
+/// dh/dT including the latent term where the melt fraction varies [J/(kg·K)].
+double apparent_heat_capacity(const Rock& rock, double T);
+/// Lowest c(T) over [T_lo, T_hi]; used for safe stable-step bounds [J/(kg·K)].
+double min_heat_capacity(const Rock& rock, double T_lo, double T_hi);
+
+} // namespace ember

@@ -1,0 +1,139 @@
+/**
+ * @file simulation.h
+ * @brief Time integration of the nodal enthalpy balance, with emplacement events, an energy
+ *        ledger and guards against non-physical states.
+ *
+ * The prognostic variable is the nodal heat content E_i [J]; temperature is recovered per node
+ * by ThermalModel::temperature(). An Integrator advances E over one step given the operator;
+ * the Simulation driver picks step sizes that land exactly on output and event times.
+ */
+#pragma once
+
+#include "ember/heat_operator.h"
+
+#include <functional>
+#include <memory>
+#include <string>
+#include <vector>
+
+namespace ember
+{
+
+inline constexpr double kSecondsPerYear = 365.25 * 86400.0;
+
+/// Initial temperature field before per-region overrides.
+struct InitialState
+{
+  enum class Kind
+  {
+    Uniform,  ///< T = surface_temperature everywhere
+    Geotherm  ///< T = surface_temperature + gradient · (z_top − z)
+  };
+  Kind kind = Kind::Uniform;
+  double surface_temperature = 10.0; ///< [°C]
+  double gradient = 0.0;             ///< [K/m], positive: warmer downward
+  double z_top = 0.0;                ///< model top [m]; ignored for Uniform
+};
+
+/// A region that enters at `time` with `temperature`, made of `rock` (an index into rocks).
+/// Before that its cells keep the rock they were given (the host it replaces).
+struct Emplacement
+{
+  int region = 0;
+  int rock = 0;
+  double time = 0.0;        ///< [s]; 0 = present from the start
+  double temperature = 0.0; ///< [°C]
+};
+
+struct SimulationSettings
+{
+  std::vector<double> output_times; ///< [s], strictly increasing, > 0
+  double safety = 0.9;              ///< fraction of the forward-Euler stable step
+  int threads = 0;                  ///< 0 = all available
+  double min_temperature = -100.0;  ///< guard [°C]
+  double max_temperature = 3000.0;  ///< guard [°C]
+};
+
+/// Energy bookkeeping over the run [J]. imbalance = stored − boundary − source − emplaced.
+struct EnergyLedger
+{
+  double initial = 0.0, stored_change = 0.0, boundary = 0.0, source = 0.0, emplaced = 0.0;
+  double imbalance() const { return stored_change - boundary - source - emplaced; }
+  double relative_imbalance() const;
+};
+
+struct Snapshot
+{
+  double time = 0.0;                ///< [s]
+  std::vector<double> temperature;  ///< [°C] per node
+  std::vector<double> melt_fraction;
+  double boundary_heat = 0.0;       ///< cumulative heat in through boundaries since t = 0 [J]
+};
+
+struct StepInfo
+{
+  std::size_t step;
+  double time, dt, end_time; ///< [s]
+};
+/// Called on the caller's thread after every step; return false to cancel.
+using StepObserver = std::function<bool(const StepInfo&)>;
+
+struct SimulationResult
+{
+  std::vector<Snapshot> snapshots;
+  EnergyLedger ledger;
+  std::size_t steps = 0;
+  std::size_t operator_applications = 0;
+  bool cancelled = false;
+};
+
+/// Thrown when the state leaves the physical range or becomes NaN; names step, time and node.
+class SimulationError : public std::runtime_error
+{
+public:
+  using std::runtime_error::runtime_error;
+};
+
+/// Advances heat content E by at most `dt_max` [s]; returns the step actually taken.
+class Integrator
+{
+public:
+  virtual ~Integrator() = default;
+  struct Step
+  {
+    double dt = 0.0;
+    PowerTally energy; ///< boundary and source heat over the step [J]
+    std::size_t operator_applications = 0;
+  };
+  /// T holds temperatures consistent with E on entry and is updated on exit.
+  virtual Step advance(const ThermalModel& model, const HeatOperator& op, double dt_max,
+    double safety, std::vector<double>& E, std::vector<double>& T, tbb::task_arena& arena) = 0;
+};
+
+/// Forward Euler on the enthalpy: E⁺ = E + Δt·R(T(E)), Δt = safety · stable step.
+class ForwardEuler final : public Integrator
+{
+public:
+  Step advance(const ThermalModel& model, const HeatOperator& op, double dt_max, double safety,
+    std::vector<double>& E, std::vector<double>& T, tbb::task_arena& arena) override;
+
+private:
+  std::vector<double> rate_;
+};
+
+/// Recover T from E on every node (parallel, deterministic), keeping held nodes fixed.
+void update_temperatures(const ThermalModel& model, const HeatOperator& op,
+  const std::vector<double>& E, std::vector<double>& T, tbb::task_arena& arena);
+
+/// Initial nodal temperatures from the state, before emplacements.
+std::vector<double> initial_temperatures(const Mesh& mesh, const InitialState& state);
+
+/**
+ * Run the model. `model` is modified by emplacement events (cells change rock).
+ * Throws std::invalid_argument for bad settings (output list out of order, ...), naming them.
+ */
+SimulationResult simulate(ThermalModel& model, const std::vector<BoundaryCondition>& conditions,
+  const InitialState& initial, const std::vector<Emplacement>& emplacements,
+  const SimulationSettings& settings, Integrator& integrator, const StepObserver& observer = {});
+
+} // namespace ember

@@ -1,0 +1,277 @@
+#include "ember/heat_operator.h"
+
+#include <oneapi/tbb/blocked_range.h>
+#include <oneapi/tbb/parallel_for.h>
+#include <oneapi/tbb/parallel_reduce.h>
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <map>
+#include <sstream>
+#include <stdexcept>
+
+namespace ember
+{
+namespace
+{
+// Fixed chunking: with simple_partitioner the reduction tree is the same for any thread count.
+constexpr std::size_t kGrain = 2048;
+
+double kelvin(double T) { return T + kKelvinOffset; }
+
+bool has_radiation(BoundaryCondition::Kind k)
+{
+  return k == BoundaryCondition::Kind::Radiation ||
+    k == BoundaryCondition::Kind::RadiationConvection;
+}
+bool has_convection(BoundaryCondition::Kind k)
+{
+  return k == BoundaryCondition::Kind::Convection ||
+    k == BoundaryCondition::Kind::RadiationConvection;
+}
+
+// Heat flux into the body through a face element at temperature T [W/m²].
+double face_flux(const BoundaryCondition& bc, double emissivity, double T)
+{
+  double q = 0.0;
+  if (has_radiation(bc.kind))
+  {
+    const double Tk = kelvin(T), Ts = kelvin(bc.sky_temperature);
+    q -= emissivity * kStefanBoltzmann * (Tk * Tk * Tk * Tk - Ts * Ts * Ts * Ts);
+  }
+  if (has_convection(bc.kind))
+    q -= bc.transfer_coefficient * (T - bc.fluid_temperature);
+  if (bc.kind == BoundaryCondition::Kind::HeatFlux)
+    q += bc.heat_flux;
+  return q;
+}
+
+// d(−q)/dT, the linearised boundary stiffness per unit area [W/(m²·K)].
+double face_stiffness(const BoundaryCondition& bc, double emissivity, double T)
+{
+  double s = 0.0;
+  if (has_radiation(bc.kind))
+  {
+    const double Tk = std::max(kelvin(T), kelvin(bc.sky_temperature));
+    s += 4.0 * emissivity * kStefanBoltzmann * Tk * Tk * Tk;
+  }
+  if (has_convection(bc.kind))
+    s += bc.transfer_coefficient;
+  return s;
+}
+
+void require(bool ok, std::size_t index, const char* what, double value, const char* rule)
+{
+  if (!ok)
+  {
+    std::ostringstream msg;
+    msg << "boundary condition " << index << ": " << what << " = " << value << " is invalid ("
+        << rule << ")";
+    throw std::invalid_argument(msg.str());
+  }
+}
+} // namespace
+
+void validate(const BoundaryCondition& bc, std::size_t index)
+{
+  const bool rad = has_radiation(bc.kind), conv = has_convection(bc.kind);
+  if (rad)
+  {
+    require(bc.emissivity < 0.0 || bc.emissivity <= 1.0, index, "emissivity", bc.emissivity,
+      "must lie in [0, 1], or be negative to use the rock's");
+    require(std::isfinite(bc.sky_temperature) && bc.sky_temperature >= -kKelvinOffset, index,
+      "sky temperature [°C]", bc.sky_temperature, "must be finite and above absolute zero");
+  }
+  if (conv)
+  {
+    require(std::isfinite(bc.transfer_coefficient) && bc.transfer_coefficient >= 0.0, index,
+      "heat-transfer coefficient [W/(m²·K)]", bc.transfer_coefficient, "must be >= 0");
+    require(std::isfinite(bc.fluid_temperature), index, "fluid temperature [°C]",
+      bc.fluid_temperature, "must be finite");
+  }
+  if (bc.kind == BoundaryCondition::Kind::FixedTemperature)
+    require(std::isfinite(bc.temperature) && bc.temperature >= -kKelvinOffset, index,
+      "temperature [°C]", bc.temperature, "must be finite and above absolute zero");
+  if (bc.kind == BoundaryCondition::Kind::HeatFlux)
+    require(std::isfinite(bc.heat_flux), index, "heat flux [W/m²]", bc.heat_flux,
+      "must be finite");
+}
+
+HeatOperator::HeatOperator(const ThermalModel& model, std::vector<BoundaryCondition> conditions)
+  : model_(&model)
+{
+  for (std::size_t i = 0; i < conditions.size(); ++i)
+    validate(conditions[i], i);
+  const Mesh& mesh = model.mesh();
+  const std::vector<BoundaryFace> faces = find_boundary_faces(mesh);
+  std::map<std::int64_t, double> fixed;
+  for (const BoundaryCondition& bc : conditions)
+  {
+    if (bc.kind == BoundaryCondition::Kind::Insulated)
+      continue;
+    Group group{ bc, {} };
+    std::map<std::int64_t, std::pair<double, double>> area; // node → (area, ε·area)
+    for (std::size_t f : select_faces(mesh, faces, bc.side, bc.regions))
+    {
+      const BoundaryFace& face = faces[f];
+      const double eps = bc.emissivity >= 0.0
+        ? bc.emissivity
+        : model.rocks()[model.cell_rock()[face.cell]].emissivity;
+      for (int a = 0; a < face.n_nodes; ++a)
+      {
+        auto& [A, epsA] = area[face.nodes[a]];
+        A += face.node_area[a];
+        epsA += eps * face.node_area[a];
+      }
+    }
+    if (bc.kind == BoundaryCondition::Kind::FixedTemperature)
+    {
+      for (const auto& [node, value] : area)
+        fixed.emplace(node, bc.temperature); // first listed condition wins at shared edges
+      continue;
+    }
+    for (const auto& [node, value] : area)
+      group.nodes.push_back({ node, value.first, value.second / value.first });
+    groups_.push_back(std::move(group));
+  }
+  fixed_.assign(fixed.begin(), fixed.end());
+  is_fixed_.assign(model.n_nodes(), 0);
+  for (const auto& [node, T] : fixed_)
+    is_fixed_[node] = 1;
+  cell_flux_.resize(mesh.cell_nodes.size());
+  refresh();
+}
+
+void HeatOperator::refresh()
+{
+  const ThermalModel& model = *model_;
+  min_capacity_.assign(model.n_nodes(), 0.0);
+  for (std::size_t i = 0; i < model.n_nodes(); ++i)
+    for (const NodeShare& s : model.shares(i))
+      min_capacity_[i] += s.mass * min_heat_capacity(model.rocks()[s.rock], -100.0, 3000.0);
+}
+
+void HeatOperator::rate(const std::vector<double>& T, std::vector<double>& dEdt,
+  PowerTally& tally, tbb::task_arena& arena) const
+{
+  const ThermalModel& model = *model_;
+  const Mesh& mesh = model.mesh();
+  const ElementMatrices& em = model.elements();
+  const std::size_t n = model.n_nodes();
+  dEdt.resize(n);
+  arena.execute([&] {
+    // 1. Per cell: conductive heat into each of its nodes, −k_c K^c T^c.
+    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, mesh.n_cells(), kGrain / 8),
+      [&](const tbb::blocked_range<std::size_t>& r) {
+        double Tc[8];
+        for (std::size_t c = r.begin(); c != r.end(); ++c)
+        {
+          const auto nodes = mesh.nodes(c);
+          const std::size_t m = nodes.size();
+          double mean = 0.0;
+          for (std::size_t a = 0; a < m; ++a)
+            mean += (Tc[a] = T[nodes[a]]);
+          const double k = conductivity(model.rocks()[model.cell_rock()[c]], mean / m);
+          const double* K = em.stiffness.data() + em.stiffness_offsets[c];
+          double* out = cell_flux_.data() + mesh.cell_offsets[c];
+          for (std::size_t a = 0; a < m; ++a)
+          {
+            double s = 0.0;
+            for (std::size_t b = 0; b < m; ++b)
+              s += K[a * m + b] * Tc[b];
+            out[a] = -k * s;
+          }
+        }
+      });
+    // 2. Per node: gather in ascending cell order, add radiogenic heat.
+    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
+      [&](const tbb::blocked_range<std::size_t>& r) {
+        for (std::size_t i = r.begin(); i != r.end(); ++i)
+        {
+          double s = model.node_source(i);
+          for (const CellSlot& slot : model.cells_of(i))
+            s += cell_flux_[mesh.cell_offsets[slot.cell] + slot.local];
+          dEdt[i] = s;
+        }
+      });
+  });
+  // 3. Boundary groups one after another (a node may sit in several); nodes unique per group.
+  tally = {};
+  for (const Group& g : groups_)
+    for (const NodeArea& na : g.nodes)
+      if (!is_fixed_[na.node])
+      {
+        const double q = na.area * face_flux(g.bc, na.emissivity, T[na.node]);
+        dEdt[na.node] += q;
+        tally.boundary += q;
+      }
+  // Heat through held nodes leaves (or enters) the body; book it, then hold the node.
+  for (const auto& [node, value] : fixed_)
+  {
+    tally.boundary -= dEdt[node] - model.node_source(node);
+    dEdt[node] = 0.0;
+  }
+  tally.source = arena.execute([&] {
+    return tbb::parallel_deterministic_reduce(
+      tbb::blocked_range<std::size_t>(0, n, kGrain), 0.0,
+      [&](const tbb::blocked_range<std::size_t>& r, double s) {
+        for (std::size_t i = r.begin(); i != r.end(); ++i)
+          if (!is_fixed_[i])
+            s += model.node_source(i);
+        return s;
+      },
+      std::plus<>());
+  });
+}
+
+double HeatOperator::stable_time_step(const std::vector<double>& T, tbb::task_arena& arena) const
+{
+  const ThermalModel& model = *model_;
+  const Mesh& mesh = model.mesh();
+  const ElementMatrices& em = model.elements();
+  const std::size_t n = model.n_nodes();
+  std::vector<double> stiffness(n, 0.0); // Σ |A_ib| per node row [W/K]
+  std::vector<double> cell_k(mesh.n_cells());
+  arena.execute([&] {
+    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, mesh.n_cells(), kGrain / 8),
+      [&](const tbb::blocked_range<std::size_t>& r) {
+        for (std::size_t c = r.begin(); c != r.end(); ++c)
+        {
+          const auto nodes = mesh.nodes(c);
+          double mean = 0.0;
+          for (std::int64_t node : nodes)
+            mean += T[node];
+          cell_k[c] = conductivity(model.rocks()[model.cell_rock()[c]], mean / nodes.size());
+        }
+      });
+    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
+      [&](const tbb::blocked_range<std::size_t>& r) {
+        for (std::size_t i = r.begin(); i != r.end(); ++i)
+        {
+          double s = 0.0;
+          for (const CellSlot& slot : model.cells_of(i))
+          {
+            const std::size_t m = mesh.nodes(slot.cell).size();
+            const double* row =
+              em.stiffness.data() + em.stiffness_offsets[slot.cell] + slot.local * m;
+            double row_sum = 0.0;
+            for (std::size_t b = 0; b < m; ++b)
+              row_sum += std::abs(row[b]);
+            s += cell_k[slot.cell] * row_sum;
+          }
+          stiffness[i] = s;
+        }
+      });
+  });
+  for (const Group& g : groups_)
+    for (const NodeArea& na : g.nodes)
+      stiffness[na.node] += na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
+  double lambda = 0.0; // max is exact under any partition
+  for (std::size_t i = 0; i < n; ++i)
+    if (!is_fixed_[i] && min_capacity_[i] > 0.0)
+      lambda = std::max(lambda, stiffness[i] / min_capacity_[i]);
+  return lambda > 0.0 ? 2.0 / lambda : std::numeric_limits<double>::infinity();
+}
+
+} // namespace ember

@@ -1,0 +1,163 @@
+#include "ember/thermal_model.h"
+
+#include <algorithm>
+#include <cmath>
+#include <sstream>
+
+namespace ember
+{
+
+ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vector<int> cell_rock)
+  : mesh_(&mesh)
+  , rocks_(std::move(rocks))
+  , cell_rock_(std::move(cell_rock))
+{
+  if (rocks_.empty())
+    throw PropertyError("no rock types given");
+  for (const Rock& rock : rocks_)
+    validate(rock);
+  if (cell_rock_.size() != mesh.n_cells())
+    throw PropertyError("rock assignment has " + std::to_string(cell_rock_.size()) +
+      " entries for " + std::to_string(mesh.n_cells()) + " cells");
+  for (std::size_t c = 0; c < cell_rock_.size(); ++c)
+    if (cell_rock_[c] < 0 || cell_rock_[c] >= static_cast<int>(rocks_.size()))
+      throw PropertyError("cell " + std::to_string(c) + " (region " +
+        std::to_string(mesh.cell_region[c]) + ") has no rock type");
+  validate_mesh(mesh);
+  elements_ = compute_element_matrices(mesh);
+
+  // node → (cell, local index), cells ascending: the fixed gather order behind determinism.
+  const std::size_t n = mesh.n_points();
+  slot_offsets_.assign(n + 1, 0);
+  for (std::int64_t node : mesh.cell_nodes)
+    ++slot_offsets_[node + 1];
+  for (std::size_t i = 0; i < n; ++i)
+    slot_offsets_[i + 1] += slot_offsets_[i];
+  slots_.resize(mesh.cell_nodes.size());
+  std::vector<std::int64_t> fill(slot_offsets_.begin(), slot_offsets_.end() - 1);
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+  {
+    const auto nodes = mesh.nodes(c);
+    for (std::size_t a = 0; a < nodes.size(); ++a)
+      slots_[fill[nodes[a]]++] = { static_cast<std::int64_t>(c), static_cast<int>(a) };
+  }
+  build_shares();
+}
+
+void ThermalModel::build_shares()
+{
+  const Mesh& mesh = *mesh_;
+  const std::size_t n = mesh.n_points();
+  share_offsets_.assign(n + 1, 0);
+  shares_.clear();
+  node_volume_.assign(n, 0.0);
+  node_source_.assign(n, 0.0);
+  std::vector<NodeShare> local;
+  for (std::size_t i = 0; i < n; ++i)
+  {
+    local.clear();
+    for (const CellSlot& slot : cells_of(i))
+    {
+      const int rock = cell_rock_[slot.cell];
+      const double volume =
+        elements_.nodal_volume[mesh.cell_offsets[slot.cell] + slot.local];
+      auto it = std::find_if(
+        local.begin(), local.end(), [rock](const NodeShare& s) { return s.rock == rock; });
+      if (it == local.end())
+        local.push_back({ rock, 0.0, 0.0 });
+      it = std::find_if(
+        local.begin(), local.end(), [rock](const NodeShare& s) { return s.rock == rock; });
+      it->volume += volume;
+      node_volume_[i] += volume;
+      node_source_[i] += volume * rocks_[rock].heat_production;
+    }
+    for (NodeShare& s : local)
+      s.mass = s.volume * rocks_[s.rock].density;
+    shares_.insert(shares_.end(), local.begin(), local.end());
+    share_offsets_[i + 1] = static_cast<std::int64_t>(shares_.size());
+  }
+}
+
+std::span<const NodeShare> ThermalModel::shares(std::size_t node) const
+{
+  return { shares_.data() + share_offsets_[node],
+    static_cast<std::size_t>(share_offsets_[node + 1] - share_offsets_[node]) };
+}
+
+std::span<const CellSlot> ThermalModel::cells_of(std::size_t node) const
+{
+  return { slots_.data() + slot_offsets_[node],
+    static_cast<std::size_t>(slot_offsets_[node + 1] - slot_offsets_[node]) };
+}
+
+double ThermalModel::energy(std::size_t node, double T) const
+{
+  double E = 0.0;
+  for (const NodeShare& s : shares(node))
+    E += s.mass * specific_enthalpy(rocks_[s.rock], T);
+  return E;
+}
+
+double ThermalModel::capacity(std::size_t node, double T) const
+{
+  double C = 0.0;
+  for (const NodeShare& s : shares(node))
+    C += s.mass * apparent_heat_capacity(rocks_[s.rock], T);
+  return C;
+}
+
+double ThermalModel::melt_fraction(std::size_t node, double T) const
+{
+  double melt = 0.0, volume = 0.0;
+  for (const NodeShare& s : shares(node))
+  {
+    melt += s.volume * ember::melt_fraction(rocks_[s.rock], T);
+    volume += s.volume;
+  }
+  return volume > 0.0 ? melt / volume : 0.0;
+}
+
+double ThermalModel::temperature(std::size_t node, double E, double T_guess) const
+{
+  const auto node_shares = shares(node);
+  if (node_shares.empty())
+    return T_guess; // unreferenced point: no control volume, keeps its value
+  // Fast path: one rock without latent heat and constant c is linear in T.
+  if (node_shares.size() == 1)
+  {
+    const Rock& rock = rocks_[node_shares[0].rock];
+    if (rock.latent_heat == 0.0 && rock.heat_capacity.law == HeatCapacity::Law::Constant)
+      return E / (node_shares[0].mass * rock.heat_capacity.c_ref);
+  }
+  if (!std::isfinite(E))
+    return E;
+  // Bracket the root by expanding from the guess; E_i is strictly increasing.
+  double lo = T_guess - 1.0, hi = T_guess + 1.0;
+  for (double step = 1.0; energy(node, lo) > E && step < 1e7; step *= 2.0)
+    lo -= step;
+  for (double step = 1.0; energy(node, hi) < E && step < 1e7; step *= 2.0)
+    hi += step;
+  double T = std::clamp(T_guess, lo, hi);
+  for (int iteration = 0; iteration < 200; ++iteration)
+  {
+    const double residual = energy(node, T) - E;
+    if (residual == 0.0)
+      return T;
+    (residual > 0.0 ? hi : lo) = T;
+    const double newton = T - residual / capacity(node, T);
+    const double next = (newton > lo && newton < hi) ? newton : 0.5 * (lo + hi);
+    if (std::abs(next - T) <= 1e-12 * (1.0 + std::abs(T)) || hi - lo <= 1e-12 * (1.0 + std::abs(T)))
+      return next;
+    T = next;
+  }
+  return T;
+}
+
+void ThermalModel::set_cell_rock(const std::vector<std::int64_t>& cells, int rock)
+{
+  for (std::int64_t c : cells)
+    cell_rock_[c] = rock;
+  build_shares();
+}
+
+} // namespace ember
