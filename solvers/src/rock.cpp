@@ -86,7 +86,8 @@ void validate(const Rock& rock)
   if (rock.name.empty())
     throw PropertyError("a rock type has an empty name");
   require_positive(rock, "density", rock.density);
-  require_positive(rock, "conductivity", rock.conductivity.k_ref);
+  if (rock.conductivity.law != Conductivity::Law::ZothHaenel) // Zoth & Haenel use A, B only
+    require_positive(rock, "conductivity", rock.conductivity.k_ref);
   require_positive(rock, "heat_capacity", rock.heat_capacity.c_ref);
   require_non_negative(rock, "latent_heat", rock.latent_heat);
   require_non_negative(rock, "heat_production", rock.heat_production);
