@@ -4,6 +4,9 @@
 #include <oneapi/tbb/parallel_for.h>
 #include <oneapi/tbb/parallel_reduce.h>
 
+#include <Eigen/Sparse>
+#include <Eigen/SparseCholesky>
+
 #include <algorithm>
 #include <cmath>
 #include <limits>
@@ -272,6 +275,98 @@ double HeatOperator::stable_time_step(const std::vector<double>& T, tbb::task_ar
     if (!is_fixed_[i] && min_capacity_[i] > 0.0)
       lambda = std::max(lambda, stiffness[i] / min_capacity_[i]);
   return lambda > 0.0 ? 2.0 / lambda : std::numeric_limits<double>::infinity();
+}
+
+std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
+{
+  const ThermalModel& model = *model_;
+  const Mesh& mesh = model.mesh();
+  const ElementMatrices& em = model.elements();
+  const std::size_t n = model.n_nodes();
+  bool anchored = !fixed_.empty();
+  for (const Group& g : groups_)
+  {
+    if (has_radiation(g.bc.kind))
+      throw std::invalid_argument("steady initial state: radiation boundaries are not supported "
+                                  "(use a fixed temperature or convection at the top)");
+    anchored = anchored || has_convection(g.bc.kind);
+  }
+  if (!anchored)
+    throw std::invalid_argument("steady initial state needs a fixed-temperature or convection "
+                                "boundary (e.g. the top surface); with only heat flow and "
+                                "insulated faces no steady state exists");
+  for (const auto& [node, value] : fixed_)
+    T[node] = value;
+  // Unknowns: free nodes with a control volume.
+  std::vector<std::int64_t> unknown(n, -1);
+  std::int64_t m = 0;
+  for (std::size_t i = 0; i < n; ++i)
+    if (!is_fixed_[i] && model.node_volume(i) > 0.0)
+      unknown[i] = m++;
+  for (int iteration = 0; iteration < 100; ++iteration)
+  {
+    std::vector<Eigen::Triplet<double>> entries;
+    Eigen::VectorXd rhs = Eigen::VectorXd::Zero(m);
+    for (std::size_t i = 0; i < n; ++i)
+      if (unknown[i] >= 0)
+        rhs[unknown[i]] += model.node_source(i);
+    for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+    {
+      const auto nodes = mesh.nodes(c);
+      const std::size_t p = nodes.size();
+      double mean = 0.0;
+      for (std::int64_t node : nodes)
+        mean += T[node];
+      const double k = conductivity(model.rocks()[model.cell_rock()[c]], mean / p);
+      const double* K = em.stiffness.data() + em.stiffness_offsets[c];
+      for (std::size_t a = 0; a < p; ++a)
+      {
+        const std::int64_t row = unknown[nodes[a]];
+        if (row < 0)
+          continue;
+        for (std::size_t b = 0; b < p; ++b)
+        {
+          const std::int64_t col = unknown[nodes[b]];
+          if (col >= 0)
+            entries.emplace_back(row, col, k * K[a * p + b]);
+          else
+            rhs[row] -= k * K[a * p + b] * T[nodes[b]];
+        }
+      }
+    }
+    for (const Group& g : groups_)
+      for (const NodeArea& na : g.nodes)
+      {
+        const std::int64_t row = unknown[na.node];
+        if (row < 0)
+          continue;
+        if (g.bc.kind == BoundaryCondition::Kind::HeatFlux)
+          rhs[row] += na.area * g.bc.heat_flux;
+        if (has_convection(g.bc.kind))
+        {
+          entries.emplace_back(row, row, na.area * g.bc.transfer_coefficient);
+          rhs[row] += na.area * g.bc.transfer_coefficient * g.bc.fluid_temperature;
+        }
+      }
+    Eigen::SparseMatrix<double> A(m, m);
+    A.setFromTriplets(entries.begin(), entries.end());
+    Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>> solver(A);
+    if (solver.info() != Eigen::Success)
+      throw std::runtime_error("steady initial state: the conduction matrix is singular (is "
+                               "every piece of the mesh connected to a held boundary?)");
+    const Eigen::VectorXd x = solver.solve(rhs);
+    double change = 0.0;
+    for (std::size_t i = 0; i < n; ++i)
+      if (unknown[i] >= 0)
+      {
+        change = std::max(change, std::abs(x[unknown[i]] - T[i]));
+        T[i] = x[unknown[i]];
+      }
+    if (change < 1e-9)
+      return T;
+  }
+  throw std::runtime_error("steady initial state: Picard iteration on k(T) did not converge "
+                           "in 100 iterations");
 }
 
 } // namespace ember

@@ -168,6 +168,8 @@ SimulationResult simulate(ThermalModel& model, const std::vector<BoundaryConditi
   tbb::task_arena arena(settings.threads > 0 ? settings.threads : tbb::task_arena::automatic);
   HeatOperator op(model, conditions);
   std::vector<double> T = initial_temperatures(model.mesh(), initial);
+  if (initial.kind == InitialState::Kind::SteadyState)
+    T = op.steady_state(std::move(T));
   for (const auto& [node, value] : op.fixed_nodes())
     T[node] = value;
   std::vector<double> E(model.n_nodes());

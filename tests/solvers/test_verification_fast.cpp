@@ -169,3 +169,35 @@ TEST(Verification, SeafloorHeatFlowSteinAndStein)
     EXPECT_NEAR(q * 1e3 / (510.0 / std::sqrt(age)), 1.0, 0.01) << "age " << age << " Myr";
   }
 }
+
+// Steady geotherm with uniform heat production, Turcotte & Schubert (2002) §4.6 (section from
+// memory; formula sure), verification.md §7(a): T = T0 + q0 z/k − A z²/(2k); A = 1 µW/m³,
+// q0 = 65 mW/m², k = 2.5, T0 = 10 °C, basal heat flow q0 − A·35 km = 30 mW/m².
+// Linear elements are nodally exact here; tolerance 1e-6 relative (verification.md §7).
+TEST(Verification, SteadyGeothermWithHeatProduction)
+{
+  const double A = 1e-6, q0 = 0.065, k = 2.5, T0 = 10, depth = 35e3, dz = 500;
+  const int cells = static_cast<int>(depth / dz);
+  Mesh mesh = column(depth, cells, dz, false);
+  Rock crust = simple_rock("crust", k, 2700, 1000);
+  crust.heat_production = A;
+  ThermalModel model(mesh, { crust }, std::vector<int>(cells, 0));
+  BoundaryCondition top;
+  top.kind = BoundaryCondition::Kind::FixedTemperature;
+  top.side = Side::Top;
+  top.temperature = T0;
+  BoundaryCondition base;
+  base.kind = BoundaryCondition::Kind::HeatFlux;
+  base.side = Side::Bottom;
+  base.heat_flux = q0 - A * depth;
+  HeatOperator op(model, { top, base });
+  const auto T = op.steady_state(initial_temperatures(mesh, {}));
+  for (double z : { 1e3, 5e3, 10e3, 20e3, 30e3, 35e3 })
+  {
+    const double exact = T0 + q0 * z / k - A * z * z / (2 * k);
+    EXPECT_NEAR(at_depth(mesh, T, z), exact, 1e-6 * exact) << "z = " << z;
+  }
+  // Without an anchoring boundary no steady state exists: a clear error, not garbage.
+  HeatOperator floating(model, { base });
+  EXPECT_THROW(floating.steady_state(initial_temperatures(mesh, {})), std::invalid_argument);
+}

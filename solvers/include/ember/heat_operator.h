@@ -74,6 +74,14 @@ public:
    */
   double stable_time_step(const std::vector<double>& T, tbb::task_arena& arena) const;
 
+  /**
+   * Steady conductive state: solves Σ_c k_c K^c T = sources + boundary heat (Eigen sparse
+   * Cholesky, LDLᵀ), with fixed-temperature nodes held and convection included; Picard
+   * iterations on k(T) from T_guess until max|ΔT| < 1e-9 K. Needs at least one
+   * fixed-temperature or convection boundary; radiation boundaries are rejected (non-linear).
+   */
+  std::vector<double> steady_state(std::vector<double> T_guess) const;
+
   /// Nodes held at a fixed temperature, and that temperature, in ascending node order.
   const std::vector<std::pair<std::int64_t, double>>& fixed_nodes() const { return fixed_; }
   /// Rebuild node-dependent data after the model's rock assignment changed.

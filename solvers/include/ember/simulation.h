@@ -27,7 +27,8 @@ struct InitialState
   enum class Kind
   {
     Uniform,  ///< T = surface_temperature everywhere
-    Geotherm  ///< T = surface_temperature + gradient · (z_top − z)
+    Geotherm, ///< T = surface_temperature + gradient · (z_top − z)
+    SteadyState ///< steady conduction for the run's boundary conditions and heat production
   };
   Kind kind = Kind::Uniform;
   double surface_temperature = 10.0; ///< [°C]
