@@ -170,6 +170,7 @@ int main(int argc, char* argv[])
       vtkNew<vtkXMLUnstructuredGridWriter> writer;
       writer->SetFileName((output / name).c_str());
       writer->SetInputData(frame);
+      writer->SetDataModeToBinary(); // inline: Debian 12's expat cannot re-read appended data
       if (!writer->Write())
         throw std::runtime_error("could not write " + (output / name).string());
       pvd << "    <DataSet timestep=\"" << snap.time / kSecondsPerYear << "\" file=\"" << name
