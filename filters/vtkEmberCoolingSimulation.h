@@ -154,7 +154,7 @@ private:
   int NumberOfOutputs = 20;
   double FirstOutputTime = 1.0;
   std::vector<double> OutputTimes;
-  int Integrator = RKL2;
+  int Integrator = FORWARD_EULER;
   int Threads = 0;
   double MemoryBudget = 1024.0;
   int SolveCount = 0;

@@ -86,9 +86,10 @@ int vtkEmberRockAssignment::RequestData(
     if (!grid || grid->GetNumberOfCells() == 0)
       throw MeshError("the input holds no cells");
     vtkInformation* array_info = this->GetInputArrayInformation(0);
-    const char* region_name =
-      array_info && array_info->Has(vtkDataObject::FIELD_NAME()) ? array_info->Get(vtkDataObject::FIELD_NAME())
-                                                                  : bridge::kRegionId;
+    // Unset (as a fresh proxy in Python leaves it) means the documented default, RegionId.
+    const char* chosen =
+      array_info && array_info->Has(vtkDataObject::FIELD_NAME()) ? array_info->Get(vtkDataObject::FIELD_NAME()) : nullptr;
+    const char* region_name = chosen && *chosen ? chosen : bridge::kRegionId;
     const Mesh mesh = bridge::to_core_mesh(grid, region_name);
     validate_mesh(mesh); // throws naming inverted or degenerate cells
 
