@@ -1,6 +1,8 @@
 // Names of the arrays and field data the Emberlith filters exchange. Array names are the
 // public face of the results (scripts and state files use them): change them with care.
 #pragma once
+// Plain C++ for the filters and the runner; nothing here for the wrappers to see.
+#ifndef __VTK_WRAP__
 
 namespace ember::bridge
 {
@@ -30,3 +32,4 @@ inline constexpr const char* kMeltFraction = "MeltFraction";
 inline constexpr const char* kTimeYears = "TimeYears";
 inline constexpr const char* kLedger = "EnergyLedger_J";
 } // namespace ember::bridge
+#endif

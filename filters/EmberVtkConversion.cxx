@@ -9,6 +9,7 @@
 #include <vtkDoubleArray.h>
 #include <vtkFieldData.h>
 #include <vtkFloatArray.h>
+#include <vtkIntArray.h>
 #include <vtkNew.h>
 #include <vtkPointData.h>
 #include <vtkPoints.h>
@@ -49,6 +50,32 @@ vtkSmartPointer<vtkUnstructuredGrid> as_unstructured_grid(vtkDataObject* input)
   append->Update();
   auto grid = vtkSmartPointer<vtkUnstructuredGrid>::New();
   grid->ShallowCopy(append->GetOutput());
+  return grid;
+}
+
+vtkSmartPointer<vtkUnstructuredGrid> to_vtk_grid(const Mesh& mesh)
+{
+  static const int vtk_type[] = { VTK_TETRA, VTK_HEXAHEDRON, VTK_WEDGE, VTK_PYRAMID };
+  auto grid = vtkSmartPointer<vtkUnstructuredGrid>::New();
+  vtkNew<vtkPoints> points;
+  points->SetDataTypeToDouble();
+  points->SetNumberOfPoints(static_cast<vtkIdType>(mesh.n_points()));
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+    points->SetPoint(static_cast<vtkIdType>(i), mesh.points[i].data());
+  grid->SetPoints(points);
+  grid->Allocate(static_cast<vtkIdType>(mesh.n_cells()));
+  vtkNew<vtkIntArray> region;
+  region->SetName("RegionId");
+  region->SetNumberOfValues(static_cast<vtkIdType>(mesh.n_cells()));
+  std::vector<vtkIdType> ids;
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+  {
+    const auto nodes = mesh.nodes(c);
+    ids.assign(nodes.begin(), nodes.end());
+    grid->InsertNextCell(vtk_type[static_cast<int>(mesh.cell_types[c])], static_cast<vtkIdType>(ids.size()), ids.data());
+    region->SetValue(static_cast<vtkIdType>(c), mesh.cell_region[c]);
+  }
+  grid->GetCellData()->AddArray(region);
   return grid;
 }
 

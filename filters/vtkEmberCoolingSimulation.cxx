@@ -32,6 +32,7 @@ struct vtkEmberCoolingSimulation::Internals
   vtkMTimeType input_mtime = 0;
   ember::EnergyLedger ledger;
   std::optional<std::vector<ember::BoundaryCondition>> conditions; ///< runner's explicit list
+  std::optional<ember::InitialState> initial;                       ///< runner's override
 };
 
 vtkEmberCoolingSimulation::vtkEmberCoolingSimulation() : Internal(new Internals) {}
@@ -58,6 +59,17 @@ void vtkEmberCoolingSimulation::SetBoundaryConditions(
 {
   this->Internal->conditions = conditions;
   this->Modified();
+}
+
+void vtkEmberCoolingSimulation::SetInitialStateOverride(const ember::InitialState& state)
+{
+  this->Internal->initial = state;
+  this->Modified();
+}
+
+ember::EnergyLedger vtkEmberCoolingSimulation::GetEnergyLedger() const
+{
+  return this->Internal->ledger;
 }
 
 std::vector<double> vtkEmberCoolingSimulation::GetOutputTimesYears() const
@@ -107,6 +119,11 @@ int vtkEmberCoolingSimulation::RequestInformation(
 
 namespace
 {
+struct Aborted : std::runtime_error
+{
+  using std::runtime_error::runtime_error;
+};
+
 ember::BoundaryCondition make_condition(int kind, ember::Side side, double temperature,
   double heat_flow_mW, double emissivity, double sky, double h, double fluid)
 {
@@ -169,6 +186,8 @@ void vtkEmberCoolingSimulation::Solve(vtkUnstructuredGrid* input)
   initial.z_top = -std::numeric_limits<double>::infinity();
   for (const Point& p : mesh.points)
     initial.z_top = std::max(initial.z_top, p[2]);
+  if (this->Internal->initial)
+    initial = *this->Internal->initial;
 
   SimulationSettings settings;
   for (double years : this->GetOutputTimesYears())
@@ -199,9 +218,11 @@ void vtkEmberCoolingSimulation::Solve(vtkUnstructuredGrid* input)
   if (result.cancelled)
   {
     cache.clear();
-    throw std::runtime_error("the simulation was aborted at the user's request");
+    throw Aborted("the simulation was aborted at the user's request");
   }
   this->Internal->ledger = result.ledger;
+  this->StepsTaken = static_cast<vtkIdType>(result.steps);
+  this->OperatorApplications = static_cast<vtkIdType>(result.operator_applications);
   ++this->SolveCount;
 }
 
@@ -212,6 +233,8 @@ int vtkEmberCoolingSimulation::RequestData(
   vtkUnstructuredGrid* output = vtkUnstructuredGrid::GetData(outputVector, 0);
   output->Initialize();
   Internals& in = *this->Internal;
+  this->LastFailure = Failure::None;
+  this->LastErrorMessage.clear();
   try
   {
     if (!input || input->GetNumberOfCells() == 0)
@@ -262,12 +285,43 @@ int vtkEmberCoolingSimulation::RequestData(
     output->GetInformation()->Set(vtkDataObject::DATA_TIME_STEP(), years);
     return 1;
   }
+  catch (const ember::SimulationError& e)
+  {
+    return this->Fail(output, Failure::Stopped, e.what());
+  }
+  catch (const Aborted& e)
+  {
+    return this->Fail(output, Failure::Stopped, e.what());
+  }
+  catch (const ember::inputs::InputError& e)
+  {
+    return this->Fail(output, Failure::Input, e.what());
+  }
+  catch (const ember::MeshError& e)
+  {
+    return this->Fail(output, Failure::Input, e.what());
+  }
+  catch (const ember::PropertyError& e)
+  {
+    return this->Fail(output, Failure::Input, e.what());
+  }
+  catch (const std::invalid_argument& e)
+  {
+    return this->Fail(output, Failure::Input, e.what());
+  }
   catch (const std::exception& e)
   {
-    output->Initialize();
-    vtkErrorMacro(<< e.what());
-    return 0;
+    return this->Fail(output, Failure::Internal, e.what());
   }
+}
+
+int vtkEmberCoolingSimulation::Fail(vtkDataObject* output, Failure kind, const char* message)
+{
+  output->Initialize();
+  this->LastFailure = kind;
+  this->LastErrorMessage = message;
+  vtkErrorMacro(<< message);
+  return 0;
 }
 
 void vtkEmberCoolingSimulation::PrintSelf(ostream& os, vtkIndent indent)

@@ -20,12 +20,15 @@
 #include <vtkUnstructuredGridAlgorithm.h>
 
 #include <memory>
+#include <string>
 #include <vector>
 
 #ifndef __VTK_WRAP__
 namespace ember
 {
 struct BoundaryCondition;
+struct InitialState;
+struct EnergyLedger;
 namespace bridge
 {
 class SnapshotCache;
@@ -120,9 +123,29 @@ public:
   /// Output times in years (also published as TIME_STEPS).
   std::vector<double> GetOutputTimesYears() const;
 
+  /// Steps and operator applications of the last solve (for provenance and benchmarks).
+  vtkGetMacro(StepsTaken, vtkIdType);
+  vtkGetMacro(OperatorApplications, vtkIdType);
+
 #ifndef __VTK_WRAP__
   /// Replace the three surface groups by explicit conditions (the runner's per-region ones).
   void SetBoundaryConditions(const std::vector<ember::BoundaryCondition>& conditions);
+  /// Use this initial state instead of the panel's (e.g. a geotherm referred to the ground
+  /// surface when a lava flow stands above it).
+  void SetInitialStateOverride(const ember::InitialState& state);
+  /// The energy ledger of the last solve [J].
+  ember::EnergyLedger GetEnergyLedger() const;
+
+  /// What went wrong in the last RequestData, for callers that need more than the message.
+  enum class Failure
+  {
+    None,
+    Input,   ///< the model or parameters are invalid (message names what and where)
+    Stopped, ///< the solve left the physical range or was aborted
+    Internal
+  };
+  Failure GetLastFailure() const { return this->LastFailure; }
+  const std::string& GetLastErrorMessage() const { return this->LastErrorMessage; }
 #endif
 
 protected:
@@ -136,6 +159,9 @@ private:
   void operator=(const vtkEmberCoolingSimulation&) = delete;
 
   void Solve(vtkUnstructuredGrid* input);
+#ifndef __VTK_WRAP__
+  int Fail(vtkDataObject* output, Failure kind, const char* message);
+#endif
 
   int InitialState = GEOTHERM;
   double SurfaceTemperature = 10.0;
@@ -158,7 +184,13 @@ private:
   int Threads = 0;
   double MemoryBudget = 1024.0;
   int SolveCount = 0;
+  vtkIdType StepsTaken = 0;
+  vtkIdType OperatorApplications = 0;
 
   struct Internals;
   std::unique_ptr<Internals> Internal;
+#ifndef __VTK_WRAP__
+  Failure LastFailure = Failure::None;
+#endif
+  std::string LastErrorMessage;
 };
