@@ -5,27 +5,25 @@
 
 namespace ember::inputs
 {
-namespace
-{
-
-int rock_index(const YAML::Node& node, const RockLibrary& library, const YamlContext& ctx)
-{
-  const std::string name = as_string(node, ctx);
-  const auto index = library.find(name);
-  if (!index)
-    ctx.fail(node, "rock type '" + name + "' is not in the rock library (it has: " +
-        library.names() + ")");
-  return *index;
-}
-
-} // namespace
-
 const RegionEntry* RegionMap::find(int id) const
 {
   for (const RegionEntry& r : regions)
     if (r.id == id)
       return &r;
   return nullptr;
+}
+
+RegionEntry::Intrusion parse_emplacement(const YAML::Node& map, const YamlContext& ctx)
+{
+  RegionEntry::Intrusion in;
+  in.temperature = as_number(require(map, "temperature", ctx), ctx.child("temperature"));
+  if (in.temperature < -100.0 || in.temperature > 3000.0)
+    ctx.child("temperature").fail(map["temperature"], "emplacement temperature must lie in [-100, 3000] °C");
+  const double years = number_or(map, "time", 0.0, ctx);
+  if (years < 0.0)
+    ctx.child("time").fail(map["time"], "emplacement time must be >= 0 years after the model start");
+  in.time = years * kSecondsPerYear;
+  return in;
 }
 
 RegionMap parse_region_map(const YAML::Node& root, const RockLibrary& library, const YamlContext& ctx)
@@ -53,17 +51,10 @@ RegionMap parse_region_map(const YAML::Node& root, const RockLibrary& library, c
     {
       const YamlContext ectx = item.child("emplacement");
       check_keys(e, ectx, { "temperature", "time", "replaces" });
-      RegionEntry::Intrusion in;
-      in.temperature = as_number(require(e, "temperature", ectx), ectx.child("temperature"));
-      if (in.temperature < -100.0 || in.temperature > 3000.0)
-        ectx.child("temperature").fail(e["temperature"], "emplacement temperature must lie in [-100, 3000] °C");
-      const double years = number_or(e, "time", 0.0, ectx);
-      if (years < 0.0)
-        ectx.child("time").fail(e["time"], "emplacement time must be >= 0 years after the model start");
-      in.time = years * kSecondsPerYear;
+      RegionEntry::Intrusion in = parse_emplacement(e, ectx);
       if (e["replaces"])
         in.replaces = rock_index(e["replaces"], library, ectx.child("replaces"));
-      else if (years > 0.0)
+      else if (in.time > 0.0)
         ectx.fail(e, "a body emplaced after the start needs 'replaces': the rock its cells hold before then");
       else
         in.replaces = entry.rock;

@@ -111,6 +111,16 @@ std::string RockLibrary::names() const
   return list;
 }
 
+int rock_index(const YAML::Node& node, const RockLibrary& library, const YamlContext& ctx)
+{
+  const std::string name = as_string(node, ctx);
+  const auto index = library.find(name);
+  if (!index)
+    ctx.fail(node, "rock type '" + name + "' is not in the rock library (it has: " +
+        library.names() + ")");
+  return *index;
+}
+
 RockLibrary parse_rock_library(const YAML::Node& root, const YamlContext& ctx)
 {
   check_keys(root, ctx, { "format", "rocks" });

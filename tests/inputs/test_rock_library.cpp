@@ -1,6 +1,7 @@
 // Reading the rock library and region map: values reach the core in SI, and every kind of bad
 // input names file, line and key. (Input-handling tests: no published source is involved.)
 #include "ember/inputs/region_map.h"
+#include "sample_rocks.h"
 
 #include <gtest/gtest.h>
 
@@ -9,22 +10,7 @@ using namespace ember::inputs;
 
 namespace
 {
-const char* kLibrary = R"(format: 1
-rocks:
-  - name: shale
-    density: 2450
-    conductivity: {law: vosteen-schellschmidt, at_25C: 1.8, class: sedimentary}
-    heat_capacity: {law: waples-waples, at_20C: 850}
-    heat_production: 1.5
-    source: test value
-  - name: dolerite
-    density: 2900
-    conductivity: {law: zoth-haenel, A: 1.18, B: 474}
-    heat_capacity: 1000
-    latent_heat: 400000
-    solidus: 980
-    liquidus: 1150
-)";
+const std::string kLibrary = "format: 1\nrocks:\n" + ember::testing::kSampleRockList;
 
 RockLibrary library()
 {

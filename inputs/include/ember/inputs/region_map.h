@@ -36,6 +36,10 @@ struct RegionMap
   const RegionEntry* find(int id) const;
 };
 
+/// `temperature` (°C, required) and `time` (years, default 0) of an emplacement, read from `map`
+/// and checked; `replaces` is left 0 for the caller.
+RegionEntry::Intrusion parse_emplacement(const YAML::Node& map, const YamlContext& ctx);
+
 /// Read a region map against a library (rock names must exist). Throws InputError with position.
 RegionMap parse_region_map(const YAML::Node& root, const RockLibrary& library, const YamlContext& ctx);
 RegionMap load_region_map(const std::string& file, const RockLibrary& library);

@@ -26,6 +26,9 @@ struct RockLibrary
   std::string names() const;
 };
 
+/// The library index of the rock named by scalar `node`; else an InputError listing the names.
+int rock_index(const YAML::Node& node, const RockLibrary& library, const YamlContext& ctx);
+
 /**
  * Read a rock library from its YAML root (`format: 1`, `rocks:` list). Throws InputError naming
  * origin, line, column and key for unknown keys, missing keys, bad numbers, duplicate names and
