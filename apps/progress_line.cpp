@@ -39,7 +39,7 @@ void ProgressLine::update(double fraction, const std::string& detail)
   else
   {
     const int tenth = static_cast<int>(fraction * 10);
-    if (tenth == last_tenth_)
+    if (tenth <= last_tenth_)
       return;
     last_tenth_ = tenth;
     std::fprintf(stream_, "%s %3d%%  %s  %.1f s\n", label_.c_str(), tenth * 10, detail.c_str(), elapsed);

@@ -22,7 +22,9 @@
 
 #include <nlohmann/json.hpp>
 
+#include <atomic>
 #include <chrono>
+#include <csignal>
 #include <cstdio>
 #include <ctime>
 #include <fstream>
@@ -74,15 +76,25 @@ std::string utc_now()
   return text;
 }
 
-// Progress events of the simulation filter → the terminal line.
+std::atomic<bool> g_interrupted{ false };
+extern "C" void on_signal(int) { g_interrupted = true; }
+
+// Progress events of the simulation filter → the terminal line; Ctrl-C → abort the solve, so
+// the staging folder is removed on the way out instead of left behind.
 struct ProgressRelay
 {
   ProgressLine* line;
   double end_years;
+  bool solving = true;
   static void relay(vtkObject* caller, unsigned long, void* self, void*)
   {
     auto* me = static_cast<ProgressRelay*>(self);
-    const double f = static_cast<vtkAlgorithm*>(caller)->GetProgress();
+    auto* algorithm = static_cast<vtkAlgorithm*>(caller);
+    if (g_interrupted)
+      algorithm->SetAbortExecute(1);
+    if (!me->solving)
+      return; // serving frames afterwards reports progress too
+    const double f = algorithm->GetProgress();
     me->line->update(f, "t = " + natural_time(f * me->end_years * ember::kSecondsPerYear));
   }
 };
@@ -102,6 +114,7 @@ int run_scenario(const RunRequest& request)
   const inputs::BuiltModel model = inputs::build_model(scenario);
   std::printf("emberlith: %s — %zu cells, %zu nodes, %zu bodies\n", request.scenario.c_str(),
     model.mesh.n_cells(), model.mesh.n_points(), scenario.bodies.size());
+  std::fflush(stdout); // before the progress line on stderr
 
   // The same filters as in the viewer, fed what the scenario defines.
   vtkSmartPointer<vtkUnstructuredGrid> grid = bridge::to_vtk_grid(model.mesh);
@@ -133,8 +146,11 @@ int run_scenario(const RunRequest& request)
   on_progress->SetCallback(&ProgressRelay::relay);
   on_progress->SetClientData(&relay);
   sim->AddObserver(vtkCommand::ProgressEvent, on_progress);
+  std::signal(SIGINT, on_signal);
+  std::signal(SIGTERM, on_signal);
   sim->UpdateInformation();
   sim->UpdateTimeStep(years.front());
+  relay.solving = false;
   if (sim->GetSolveCount() != 1)
   {
     line.done();
