@@ -257,26 +257,29 @@ double csr_throughput(const Csr& a, int threads, int repeats)
 }
 
 // Bytes one forward-Euler step streams per node, counted from the arrays each pass reads or
-// writes once (compulsory traffic; gathers of T through cell connectivity assumed cached):
-// stable step = cells (connectivity, rock, k) + per-slot stiffness rows + per-node sums;
-// rate = cells (connectivity, rock, stiffness, flux out) + per-slot gather (slot, offset,
-// flux) + per-node (source, rate); update = E, rate; T(E) = E, T, node shares.
+// writes once (compulsory traffic; writes count twice for write-allocate; the gathers of T
+// through the connectivity are assumed to hit cache). Per pass:
+//   stable step: cells (connectivity 8/cell-node, rock 4, offsets 8) + Σ|K| rows 8 and
+//     k·Σ|K| out 8+8 per cell-node; nodes: gather (4 + 8 per entry), start 8, row sum 8+8,
+//     then λ: row sum 8, capacity 8, held flag 1;
+//   rate: cells (connectivity, rock, two offsets) + stiffness 8·m² per cell + flux out 8+8 per
+//     cell-node; nodes: gather (4 + 8 per entry), start 8, source 8, rate 8+8; source sum 8 + 1;
+//   update: E 8+8, rate 8;  T(E): E 8, T 8+8, share offset 8, 24 per node share.
 double step_bytes_per_node(const ThermalModel& model)
 {
   const Mesh& mesh = model.mesh();
   const double n = mesh.n_points(), cells = mesh.n_cells();
-  const double slots = mesh.cell_nodes.size();
+  const double entries = mesh.cell_nodes.size();
   const double stiffness = model.elements().stiffness.size();
   double shares = 0;
   for (std::size_t i = 0; i < mesh.n_points(); ++i)
     shares += model.shares(i).size();
-  const double cell_pass = slots * 8 + cells * (4 + 8 + 8); // connectivity, rock, offsets
-  const double stable = cell_pass + cells * 8 + slots * 16 + stiffness * 8 + slots * 8 +
-    n * (8 + 8 + 8 + 1); // k per cell; slots; rows; k gather; sums, capacity, flags
-  const double rate = cell_pass + stiffness * 8 + slots * 8 * 2 + slots * (16 + 8 + 8) +
-    n * (8 + 8 * 2 + 1); // flux out (+ write-allocate); gather; source, rate, flags
-  const double update = n * (8 * 2 + 8);
-  const double recovery = n * (8 + 8 * 2 + 8) + shares * 24;
+  const double stable = entries * 8 + cells * (4 + 8) + entries * (8 + 16) +
+    entries * (4 + 8) + n * (8 + 16) + n * (8 + 8 + 1);
+  const double rate = entries * 8 + cells * (4 + 8 + 8) + stiffness * 8 + entries * 16 +
+    entries * (4 + 8) + n * (8 + 8 + 16) + n * (8 + 1);
+  const double update = n * (16 + 8);
+  const double recovery = n * (8 + 16 + 8) + shares * 24;
   return (stable + rate + update + recovery) / n;
 }
 
@@ -294,7 +297,7 @@ double state_bytes_per_node(const ThermalModel& model, IntegratorKind kind)
   const double mesh_bytes = n * 24 + cells * (1 + 8 + 4) + slots * 8;
   const double element_bytes = em.stiffness.size() * 8.0 + cells * 8 * 2 + slots * 8;
   const double model_bytes = cells * 4 + n * 8 + slots * 16 + n * 8 + shares * 24 + n * 16;
-  const double operator_bytes = slots * 8 + n * (8 + 1);
+  const double operator_bytes = slots * (8 + 8 + 4) + n * (8 + 8 + 8 + 1); // flux, Σ|K|, gather
   const double integrator_vectors = kind == IntegratorKind::RKL2 ? 6 : 1; // + E and T
   return (mesh_bytes + element_bytes + model_bytes + operator_bytes) / n + 8 * 2 +
     8 * integrator_vectors;
@@ -485,6 +488,14 @@ int main(int argc, char** argv)
   auto want = [&](const char* s) { return sections.empty() || sections.count(s) > 0; };
   std::printf("# emberlith-bench%s: one 'figure' line per measured figure (bench/README.md)\n",
     quick ? " --quick" : "");
+  {
+    // Shared machines: the load when the run started says how much the figures can be trusted.
+    std::ifstream loadavg("/proc/loadavg");
+    std::string one, five, fifteen;
+    loadavg >> one >> five >> fifteen;
+    std::printf("# load average at start: %s %s %s (1, 5, 15 min)\n", one.c_str(), five.c_str(),
+      fifteen.c_str());
+  }
   if (want("memory")) // first, while the heap is fresh, so the resident-set growth is ours
     section_memory();
   if (want("stream"))
