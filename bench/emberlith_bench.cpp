@@ -363,6 +363,11 @@ void section_step_and_csr(bool step, bool csr)
       figure("csr_nnz_per_row", nnz_per_row, "1", "mesh=" + mesh_name);
       figure("csr_yardstick_roofline", triad_two_threads / csr_bytes, "node-updates/s",
         "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(csr_bytes));
+      // The nominal yardstick: exactly 27 (hex) or 15 (tet) nonzeros per row.
+      const double nominal_bytes = 12.0 * (tets ? 15 : 27) + 16.0;
+      figure("csr_yardstick_roofline_nominal", triad_two_threads / nominal_bytes,
+        "node-updates/s",
+        "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(nominal_bytes));
       for (int threads : kThreadCounts)
       {
         const double v = csr_throughput(a, threads, quick ? 3 : 10);
