@@ -73,6 +73,24 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
   // Accuracy control (common practice for explicit step control, no source): the heating
   // rate changed by ΔR_i over the last super-step τ_prev; τ_prev·|ΔR_i|/C_i [K] measures the
   // second-order term the step had to follow, and scales as τ². Aim it at the tolerance.
+  // E changed since the last super-step ended (an emplacement, or another run): that is a new
+  // sudden start, so the history says nothing about it; start again at one forward-Euler step.
+  if (last_tau_ > 0.0 && (y0_.size() != n || d_prev_.size() != n ||
+                          arena.execute(
+                            [&]
+                            {
+                              return tbb::parallel_reduce(
+                                tbb::blocked_range<std::size_t>(0, n, kGrain),
+                                false,
+                                [&](const tbb::blocked_range<std::size_t>& r, bool changed)
+                                {
+                                  for (std::size_t i = r.begin(); i != r.end() && !changed; ++i)
+                                    changed = E[i] != y0_[i] + d_prev_[i];
+                                  return changed;
+                                },
+                                [](bool a, bool b) { return a || b; });
+                            })))
+    reset();
   double tau_accurate = std::isinf(tolerance_) ? tolerance_ : dt_fe; // no history: one FE step
   if (std::isfinite(tolerance_) && last_tau_ > 0.0 && rate0_prev_.size() == n)
   {

@@ -41,7 +41,8 @@ public:
    *   output interval, and RKL2 is not L-stable (stiff modes are damped only by |R| ≈ 1/2 per
    *   super-step, rkl2.md): after a sudden start (an emplaced sill, a lava surface meeting air)
    *   that costs hundreds of kelvin. The control starts at the forward-Euler step, grows at
-   *   most 2× per super-step, and shrinks again after an emplacement (the rate jumps).
+   *   most 2× per super-step, and starts again at the forward-Euler step whenever E was
+   *   changed between super-steps (an emplacement).
    *   Infinity switches the control off (stability alone sets the step).
    * @param max_stages  cap on the stages per super-step (≥ 2).
    */
