@@ -39,8 +39,12 @@ constexpr int kThreadCounts[] = { 1, 2 };
 
 void figure(const std::string& name, double value, const char* unit, const std::string& extra = "")
 {
-  std::printf("figure name=%s value=%.6g unit=%s%s%s\n", name.c_str(), value, unit,
-    extra.empty() ? "" : " ", extra.c_str());
+  std::printf("figure name=%s value=%.6g unit=%s%s%s\n",
+              name.c_str(),
+              value,
+              unit,
+              extra.empty() ? "" : " ",
+              extra.c_str());
   std::fflush(stdout);
 }
 
@@ -72,23 +76,32 @@ double stream_triad(int threads)
   const std::size_t n = quick ? (std::size_t(1) << 22) : (std::size_t(1) << 25); // 3×256 MB
   std::vector<double> a(n), b(n), c(n);
   tbb::task_arena arena(threads);
-  auto fill = [&] {
+  auto fill = [&]
+  {
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 1 << 16),
-      [&](const tbb::blocked_range<std::size_t>& r) {
-        for (std::size_t i = r.begin(); i != r.end(); ++i)
-          a[i] = 0.0, b[i] = 1.0, c[i] = 2.0; // first touch by the threads that use them
-      });
+                      [&](const tbb::blocked_range<std::size_t>& r)
+                      {
+                        for (std::size_t i = r.begin(); i != r.end(); ++i)
+                          a[i] = 0.0, b[i] = 1.0,
+                          c[i] = 2.0; // first touch by the threads that use them
+                      });
   };
   arena.execute(fill);
-  const double t = best_time(quick ? 3 : 10, [&] {
-    arena.execute([&] {
-      tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 1 << 16),
-        [&](const tbb::blocked_range<std::size_t>& r) {
-          for (std::size_t i = r.begin(); i != r.end(); ++i)
-            a[i] = b[i] + 3.0 * c[i];
-        });
-    });
-  });
+  const double t =
+    best_time(quick ? 3 : 10,
+              [&]
+              {
+                arena.execute(
+                  [&]
+                  {
+                    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 1 << 16),
+                                      [&](const tbb::blocked_range<std::size_t>& r)
+                                      {
+                                        for (std::size_t i = r.begin(); i != r.end(); ++i)
+                                          a[i] = b[i] + 3.0 * c[i];
+                                      });
+                  });
+              });
   return 24.0 * n / t;
 }
 
@@ -180,22 +193,29 @@ void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
   const int repeats = quick ? 2 : 10;
   const double n = p.mesh.n_points();
   const std::string tag = "mesh=" + mesh_name + " threads=" + std::to_string(threads);
-  figure("rate_throughput", n / best_time(repeats, [&] { p.op->rate(p.T, rate, tally, arena); }),
-    "node-updates/s", tag);
+  figure("rate_throughput",
+         n / best_time(repeats, [&] { p.op->rate(p.T, rate, tally, arena); }),
+         "node-updates/s",
+         tag);
   figure("stable_step_throughput",
-    n / best_time(repeats, [&] { (void)p.op->stable_time_step(p.T, arena); }), "node-updates/s",
-    tag);
+         n / best_time(repeats, [&] { (void)p.op->stable_time_step(p.T, arena); }),
+         "node-updates/s",
+         tag);
   // T(E) after a real step's change of E (with E and T already consistent the Newton
   // iteration would stop at once and flatter the figure); T is reset to the old guess first.
   const std::vector<double> T_old = p.T;
   std::vector<double> E_new = p.E;
   for (std::size_t i = 0; i < E_new.size(); ++i)
     E_new[i] += 1.0 * rate[i];
-  figure("temperature_recovery_throughput", n / best_time(repeats, [&] {
-    std::copy(T_old.begin(), T_old.end(), p.T.begin());
-    update_temperatures(*p.model, *p.op, E_new, p.T, arena);
-  }),
-    "node-updates/s", tag);
+  figure("temperature_recovery_throughput",
+         n / best_time(repeats,
+                       [&]
+                       {
+                         std::copy(T_old.begin(), T_old.end(), p.T.begin());
+                         update_temperatures(*p.model, *p.op, E_new, p.T, arena);
+                       }),
+         "node-updates/s",
+         tag);
   p.T = T_old;
 }
 
@@ -247,19 +267,23 @@ double csr_throughput(const Csr& a, int threads, int repeats)
   const std::size_t n = a.row_start.size() - 1;
   std::vector<double> x(n, 1.0), y(n, 0.0);
   tbb::task_arena arena(threads);
-  auto spmv = [&] {
-    arena.execute([&] {
-      tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 2048),
-        [&](const tbb::blocked_range<std::size_t>& r) {
-          for (std::size_t i = r.begin(); i != r.end(); ++i)
-          {
-            double s = 0.0;
-            for (std::int64_t k = a.row_start[i]; k < a.row_start[i + 1]; ++k)
-              s += a.value[k] * x[a.column[k]];
-            y[i] = s;
-          }
-        });
-    });
+  auto spmv = [&]
+  {
+    arena.execute(
+      [&]
+      {
+        tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 2048),
+                          [&](const tbb::blocked_range<std::size_t>& r)
+                          {
+                            for (std::size_t i = r.begin(); i != r.end(); ++i)
+                            {
+                              double s = 0.0;
+                              for (std::int64_t k = a.row_start[i]; k < a.row_start[i + 1]; ++k)
+                                s += a.value[k] * x[a.column[k]];
+                              y[i] = s;
+                            }
+                          });
+      });
   };
   spmv();
   return n / best_time(repeats, spmv);
@@ -283,10 +307,10 @@ double step_bytes_per_node(const ThermalModel& model)
   double shares = 0;
   for (std::size_t i = 0; i < mesh.n_points(); ++i)
     shares += model.shares(i).size();
-  const double stable = entries * 8 + cells * (4 + 8) + entries * (8 + 16) +
-    entries * (4 + 8) + n * (8 + 16) + n * (8 + 8 + 1);
+  const double stable = entries * 8 + cells * (4 + 8) + entries * (8 + 16) + entries * (4 + 8) +
+                        n * (8 + 16) + n * (8 + 8 + 1);
   const double rate = entries * 8 + cells * (4 + 8 + 8) + stiffness * 8 + entries * 16 +
-    entries * (4 + 8) + n * (8 + 8 + 16) + n * (8 + 1);
+                      entries * (4 + 8) + n * (8 + 8 + 16) + n * (8 + 1);
   const double update = n * (16 + 8);
   const double recovery = n * (8 + 16 + 8) + shares * 24;
   return (stable + rate + update + recovery) / n;
@@ -307,9 +331,9 @@ double state_bytes_per_node(const ThermalModel& model, IntegratorKind kind)
   const double element_bytes = em.stiffness.size() * 8.0 + cells * 8 * 2 + slots * 8;
   const double model_bytes = cells * 4 + n * 8 + slots * 16 + n * 8 + shares * 24 + n * 16;
   const double operator_bytes = slots * (8 + 8 + 4) + n * (8 + 8 + 8 + 1); // flux, Σ|K|, gather
-  const double integrator_vectors = kind == IntegratorKind::RKL2 ? 6 : 1; // + E and T
+  const double integrator_vectors = kind == IntegratorKind::RKL2 ? 6 : 1;  // + E and T
   return (mesh_bytes + element_bytes + model_bytes + operator_bytes) / n + 8 * 2 +
-    8 * integrator_vectors;
+         8 * integrator_vectors;
 }
 
 // ---- Sections ---------------------------------------------------------------------------------
@@ -336,70 +360,87 @@ void section_step_and_csr(bool step, bool csr)
     const std::string mesh_name = tets ? "tet" : "hex";
     Problem p = make_problem(nodes, tets);
     const std::string size = " nodes=" + std::to_string(p.mesh.n_points());
-    std::printf("# %s mesh: %zu nodes, %zu cells\n", mesh_name.c_str(), p.mesh.n_points(),
-      p.mesh.n_cells());
+    std::printf(
+      "# %s mesh: %zu nodes, %zu cells\n", mesh_name.c_str(), p.mesh.n_points(), p.mesh.n_cells());
     double step_2t = 0, step_1t = 0, csr_2t = 0;
     if (step)
       for (int threads : kThreadCounts)
       {
         const double v = step_throughput(p, threads, quick ? 2 : 15);
         (threads == 1 ? step_1t : step_2t) = v;
-        figure("step_throughput", v, "node-updates/s",
-          "mesh=" + mesh_name + " threads=" + std::to_string(threads) + size +
-            " integrator=forward-euler physics=k(T),c(T),latent");
+        figure("step_throughput",
+               v,
+               "node-updates/s",
+               "mesh=" + mesh_name + " threads=" + std::to_string(threads) + size +
+                 " integrator=forward-euler physics=k(T),c(T),latent");
         step_breakdown(p, threads, mesh_name);
       }
     if (step)
       figure("step_scaling_2t_over_1t", step_2t / step_1t, "ratio", "mesh=" + mesh_name);
     const double bytes = step_bytes_per_node(*p.model);
     figure("step_bytes_per_node", bytes, "B", "mesh=" + mesh_name + " method=counted");
-    figure("step_roofline", triad_two_threads / bytes, "node-updates/s",
-      "mesh=" + mesh_name + " threads=2 bandwidth=triad");
+    figure("step_roofline",
+           triad_two_threads / bytes,
+           "node-updates/s",
+           "mesh=" + mesh_name + " threads=2 bandwidth=triad");
     if (csr)
     {
       const Csr a = assemble_csr(*p.model);
       const double nnz_per_row = double(a.value.size()) / p.mesh.n_points();
       const double csr_bytes = 12.0 * nnz_per_row + 16.0; // issue #7's yardstick definition
       figure("csr_nnz_per_row", nnz_per_row, "1", "mesh=" + mesh_name);
-      figure("csr_yardstick_roofline", triad_two_threads / csr_bytes, "node-updates/s",
-        "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(csr_bytes));
+      figure("csr_yardstick_roofline",
+             triad_two_threads / csr_bytes,
+             "node-updates/s",
+             "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(csr_bytes));
       // The issue's nominal yardstick: exactly 27 (hex) or 15 (tet) nonzeros per row.
       const double nominal_bytes = 12.0 * (tets ? 15 : 27) + 16.0;
-      figure("csr_yardstick_roofline_nominal", triad_two_threads / nominal_bytes,
-        "node-updates/s",
-        "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(nominal_bytes));
+      figure("csr_yardstick_roofline_nominal",
+             triad_two_threads / nominal_bytes,
+             "node-updates/s",
+             "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(nominal_bytes));
       for (int threads : kThreadCounts)
       {
         const double v = csr_throughput(a, threads, quick ? 3 : 10);
         if (threads == 2)
           csr_2t = v;
-        figure("csr_spmv_throughput", v, "node-updates/s",
-          "mesh=" + mesh_name + " threads=" + std::to_string(threads));
+        figure("csr_spmv_throughput",
+               v,
+               "node-updates/s",
+               "mesh=" + mesh_name + " threads=" + std::to_string(threads));
       }
       if (step)
       {
-        figure("step_over_csr_roofline", step_2t / (triad_two_threads / csr_bytes), "ratio",
-          "mesh=" + mesh_name + " threads=2 target=0.8");
-        figure("step_over_csr_measured", step_2t / csr_2t, "ratio",
-          "mesh=" + mesh_name + " threads=2 target=0.8");
+        figure("step_over_csr_roofline",
+               step_2t / (triad_two_threads / csr_bytes),
+               "ratio",
+               "mesh=" + mesh_name + " threads=2 target=0.8");
+        figure("step_over_csr_measured",
+               step_2t / csr_2t,
+               "ratio",
+               "mesh=" + mesh_name + " threads=2 target=0.8");
       }
     }
     if (step)
-      figure("step_over_own_roofline", step_2t / (triad_two_threads / bytes), "ratio",
-        "mesh=" + mesh_name + " threads=2");
+      figure("step_over_own_roofline",
+             step_2t / (triad_two_threads / bytes),
+             "ratio",
+             "mesh=" + mesh_name + " threads=2");
   }
 }
 
 void section_growth()
 {
-  std::vector<double> sizes = quick ? std::vector<double>{ 1e4, 1e5 }
-                                    : std::vector<double>{ 1e4, 1e5, 1e6, 4e6 };
+  std::vector<double> sizes =
+    quick ? std::vector<double>{ 1e4, 1e5 } : std::vector<double>{ 1e4, 1e5, 1e6, 4e6 };
   for (double nodes : sizes)
   {
     Problem p = make_problem(nodes, false);
     const int repeats = nodes < 1e6 ? 40 : nodes < 2e6 ? 15 : 6;
-    figure("step_throughput_growth", step_throughput(p, 2, repeats), "node-updates/s",
-      "mesh=hex threads=2 nodes=" + std::to_string(p.mesh.n_points()));
+    figure("step_throughput_growth",
+           step_throughput(p, 2, repeats),
+           "node-updates/s",
+           "mesh=hex threads=2 nodes=" + std::to_string(p.mesh.n_points()));
   }
 }
 
@@ -412,15 +453,22 @@ void section_memory()
   Rkl2 rkl2;
   rkl2.advance(*p.model, *p.op, 1.0, 0.9, p.E, p.T, arena); // allocates its vectors
   const double n = p.mesh.n_points();
-  figure("state_bytes_per_node_measured", (resident_bytes() - before) / n, "B",
-    "mesh=hex integrator=rkl2 method=resident-set-growth target=300");
-  figure("state_bytes_per_node_counted", state_bytes_per_node(*p.model, IntegratorKind::RKL2), "B",
-    "mesh=hex integrator=rkl2 method=container-sizes target=300");
+  figure("state_bytes_per_node_measured",
+         (resident_bytes() - before) / n,
+         "B",
+         "mesh=hex integrator=rkl2 method=resident-set-growth target=300");
   figure("state_bytes_per_node_counted",
-    state_bytes_per_node(*p.model, IntegratorKind::ForwardEuler), "B",
-    "mesh=hex integrator=forward-euler method=container-sizes target=300");
-  figure("element_matrix_bytes_per_node", p.model->elements().stiffness.size() * 8.0 / n, "B",
-    "mesh=hex");
+         state_bytes_per_node(*p.model, IntegratorKind::RKL2),
+         "B",
+         "mesh=hex integrator=rkl2 method=container-sizes target=300");
+  figure("state_bytes_per_node_counted",
+         state_bytes_per_node(*p.model, IntegratorKind::ForwardEuler),
+         "B",
+         "mesh=hex integrator=forward-euler method=container-sizes target=300");
+  figure("element_matrix_bytes_per_node",
+         p.model->elements().stiffness.size() * 8.0 / n,
+         "B",
+         "mesh=hex");
 }
 
 // Reference time-to-solution problem (issue #7): a 100 m sill (b = 50 m) emplaced at 1150 °C in
@@ -438,7 +486,8 @@ void section_sill()
   std::vector<double> times(20);
   for (int i = 0; i < 20; ++i)
     times[i] = 100 * kSecondsPerYear * std::pow(100.0, i / 19.0);
-  auto theta = [&](double x, double t) {
+  auto theta = [&](double x, double t)
+  {
     const double s = 2 * std::sqrt(kappa * t);
     return 0.5 * (std::erf((b - x) / s) + std::erf((b + x) / s));
   };
@@ -460,8 +509,8 @@ void section_sill()
     const auto integrator = make_integrator(kind);
     SimulationResult result;
     const auto t0 = Clock::now();
-    result = simulate(model, {}, { InitialState::Kind::Uniform, Th }, { { 1, 0, 0.0, T0 } }, s,
-      *integrator);
+    result = simulate(
+      model, {}, { InitialState::Kind::Uniform, Th }, { { 1, 0, 0.0, T0 } }, s, *integrator);
     const double wall = std::chrono::duration<double>(Clock::now() - t0).count();
     double worst = 0, contact = 0;
     for (const Snapshot& snap : result.snapshots)
@@ -473,8 +522,8 @@ void section_sill()
         if (std::abs(x - b) < 1e-6 * w)
           contact = std::max(contact, err);
       }
-    const std::string tag = "integrator=" + integrator_name(kind) + " threads=2 nodes=" +
-      std::to_string(mesh.n_points());
+    const std::string tag =
+      "integrator=" + integrator_name(kind) + " threads=2 nodes=" + std::to_string(mesh.n_points());
     figure("sill_wall", wall, "s", tag);
     figure("sill_operator_applications", double(result.operator_applications), "1", tag);
     figure("sill_max_theta_error", worst, "1", tag + " target=0.01");
@@ -494,21 +543,23 @@ int main(int argc, char** argv)
       sections.insert(argv[++i]);
     else
     {
-      std::fprintf(stderr,
-        "usage: %s [--quick] [--section stream|step|csr|growth|memory|sill]...\n", argv[0]);
+      std::fprintf(
+        stderr, "usage: %s [--quick] [--section stream|step|csr|growth|memory|sill]...\n", argv[0]);
       return 2;
     }
   }
   auto want = [&](const char* s) { return sections.empty() || sections.count(s) > 0; };
   std::printf("# emberlith-bench%s: one 'figure' line per measured figure (bench/README.md)\n",
-    quick ? " --quick" : "");
+              quick ? " --quick" : "");
   {
     // Shared machines: the load when the run started says how much the figures can be trusted.
     std::ifstream loadavg("/proc/loadavg");
     std::string one, five, fifteen;
     loadavg >> one >> five >> fifteen;
-    std::printf("# load average at start: %s %s %s (1, 5, 15 min)\n", one.c_str(), five.c_str(),
-      fifteen.c_str());
+    std::printf("# load average at start: %s %s %s (1, 5, 15 min)\n",
+                one.c_str(),
+                five.c_str(),
+                fifteen.c_str());
   }
   if (want("memory")) // first, while the heap is fresh, so the resident-set growth is ours
     section_memory();
