@@ -14,6 +14,11 @@ EMBER_PACKAGES=(
   paraview paraview-dev python3-paraview
   qtbase5-dev qttools5-dev qttools5-dev-tools libqt5svg5-dev qtxmlpatterns5-dev-tools
   libqt5opengl5-dev
+  # what the SDK's VTK config looks for when the plugin's components are found (measured:
+  # configure fails without MPI headers and double-conversion; the rest are its other finds)
+  libopenmpi-dev libdouble-conversion-dev liblz4-dev liblzma-dev libexpat1-dev libfreetype-dev
+  libglew-dev zlib1g-dev libpng-dev libjpeg-dev libtiff-dev libgl-dev libx11-dev libxt-dev
+  libgl2ps-dev
   # headless rendering and movies
   xvfb xauth ffmpeg
 )

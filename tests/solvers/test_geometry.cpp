@@ -358,15 +358,30 @@ TEST(Geometry, TetStiffnessMatchesP1Formula)
       EXPECT_NEAR(em.stiffness[a * 4 + b], V * grad[a].dot(grad[b]), 1e-14) << a << "," << b;
 }
 
-TEST(Geometry, HexStiffnessOfUnitCubeMatchesKnownValues)
+TEST(Geometry, HexStiffnessOfUnitCubeIsTheSevenPointStencil)
 {
-  // Q1 Laplacian on the unit cube, 2x2x2 Gauss (exact here): diagonal 1/3, edge neighbour 0,
-  // face-diagonal -1/12, body-diagonal -1/12.
+  // Vertex-rule Q1 stiffness on the unit cube, worked by hand: each corner carries 1/8 of the
+  // volume; at node 0's own corner |∇N_0|² = 3, at each of its three edge neighbours' corners
+  // ∇N_0 has one unit component, so K_00 = (3 + 3)/8 = 3/4; K_01 = (−1 − 1)/8 = −1/4 along an
+  // edge; face and body diagonals 0. This is the 7-point finite-difference Laplacian with
+  // control-volume faces of 1/4 m² (the Gauss rule would give 1/3, 0, −1/12, −1/12).
   const ElementMatrices em = compute_element_matrices(single_cell(CellType::Hexahedron, unit_hex));
-  EXPECT_NEAR(em.stiffness[0 * 8 + 0], 1.0 / 3, 1e-15);
-  EXPECT_NEAR(em.stiffness[0 * 8 + 1], 0.0, 1e-15);
-  EXPECT_NEAR(em.stiffness[0 * 8 + 2], -1.0 / 12, 1e-15);
-  EXPECT_NEAR(em.stiffness[0 * 8 + 6], -1.0 / 12, 1e-15);
+  EXPECT_NEAR(em.stiffness[0 * 8 + 0], 3.0 / 4, 1e-15);
+  EXPECT_NEAR(em.stiffness[0 * 8 + 1], -1.0 / 4, 1e-15);
+  EXPECT_NEAR(em.stiffness[0 * 8 + 2], 0.0, 1e-15);
+  EXPECT_NEAR(em.stiffness[0 * 8 + 6], 0.0, 1e-15);
+}
+
+TEST(Geometry, HexStiffnessIsAnMMatrixAtAnyAspectRatio)
+{
+  // A 100 m × 100 m × 5 m brick (a graded mesh's cell beside a thin sill): every off-diagonal
+  // coupling must be ≤ 0, else explicit steps leave the range of the data (maximum principle).
+  Mesh mesh = make_box_hex({ 0, 0, 0 }, { 100, 100, 5 }, { 1, 1, 1 });
+  const ElementMatrices em = compute_element_matrices(mesh);
+  for (int a = 0; a < 8; ++a)
+    for (int b = 0; b < 8; ++b)
+      if (a != b)
+        EXPECT_LE(em.stiffness[a * 8 + b], 0.0) << a << "," << b;
 }
 
 TEST(Geometry, StiffnessInvariantsOnDistortedCells)

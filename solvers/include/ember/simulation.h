@@ -46,6 +46,10 @@ struct Emplacement
   double temperature = 0.0; ///< [°C]
 };
 
+struct Snapshot;
+/// Receives each snapshot as it is made (so a caller can keep it within a memory budget).
+using SnapshotSink = std::function<void(Snapshot&&)>;
+
 struct SimulationSettings
 {
   std::vector<double> output_times; ///< [s], strictly increasing, > 0
@@ -53,6 +57,8 @@ struct SimulationSettings
   int threads = 0;                  ///< 0 = all available
   double min_temperature = -100.0;  ///< guard [°C]
   double max_temperature = 3000.0;  ///< guard [°C]
+  /// If set, snapshots go here instead of into SimulationResult::snapshots.
+  SnapshotSink snapshot_sink;
 };
 
 /// Energy bookkeeping over the run [J]. imbalance = stored − boundary − source − emplaced.

@@ -1,0 +1,205 @@
+// `emberlith run`: scenario → model builder → the plugin's filters → result folder.
+#include "progress_line.h"
+#include "result_folder.h"
+#include "runner.h"
+
+#include "EmberVtkConversion.h"
+#include "vtkEmberCoolingSimulation.h"
+#include "vtkEmberRockAssignment.h"
+
+#include "ember/inputs/model_builder.h"
+#include "ember/inputs/scenario.h"
+
+#include <vtkCallbackCommand.h>
+#include <vtkCommand.h>
+#include <vtkDataArray.h>
+#include <vtkFieldData.h>
+#include <vtkNew.h>
+#include <vtkPointData.h>
+#include <vtkUnstructuredGrid.h>
+#include <vtkXMLUnstructuredGridWriter.h>
+#include <vtksys/MD5.h>
+
+#include <nlohmann/json.hpp>
+
+#include <chrono>
+#include <cstdio>
+#include <ctime>
+#include <fstream>
+#include <sstream>
+
+namespace fs = std::filesystem;
+
+namespace emberlith
+{
+const char* const kCaution =
+  "Caution: these are model estimates from uncertain inputs (body shapes, emplacement "
+  "temperatures and times, rock properties, boundary conditions) and a conduction-only model. "
+  "Do not use them to decide access to a lava field, a drilling plan or a well design; follow "
+  "local regulations and the instructions of civil-protection and other authorities, and rely "
+  "on licensed professionals.";
+
+namespace
+{
+std::string md5_of_file(const fs::path& file)
+{
+  std::ifstream in(file, std::ios::binary);
+  std::ostringstream bytes;
+  bytes << in.rdbuf();
+  const std::string text = bytes.str();
+  vtksysMD5* md5 = vtksysMD5_New();
+  vtksysMD5_Initialize(md5);
+  vtksysMD5_Append(md5, reinterpret_cast<const unsigned char*>(text.data()), static_cast<int>(text.size()));
+  char hex[33] = {};
+  vtksysMD5_FinalizeHex(md5, hex);
+  vtksysMD5_Delete(md5);
+  return hex;
+}
+
+void write_vtu(vtkUnstructuredGrid* grid, const fs::path& file)
+{
+  vtkNew<vtkXMLUnstructuredGridWriter> writer;
+  writer->SetFileName(file.c_str());
+  writer->SetInputData(grid);
+  writer->SetDataModeToBinary(); // inline: Debian 12's expat cannot re-read appended data
+  if (!writer->Write())
+    throw std::runtime_error("cannot write " + file.string() + " (disk full or no permission?)");
+}
+
+std::string utc_now()
+{
+  const std::time_t now = std::time(nullptr);
+  char text[32];
+  std::strftime(text, sizeof text, "%Y-%m-%dT%H:%M:%SZ", std::gmtime(&now));
+  return text;
+}
+
+// Progress events of the simulation filter → the terminal line.
+struct ProgressRelay
+{
+  ProgressLine* line;
+  double end_years;
+  static void relay(vtkObject* caller, unsigned long, void* self, void*)
+  {
+    auto* me = static_cast<ProgressRelay*>(self);
+    const double f = static_cast<vtkAlgorithm*>(caller)->GetProgress();
+    me->line->update(f, "t = " + natural_time(f * me->end_years * ember::kSecondsPerYear));
+  }
+};
+} // namespace
+
+int run_scenario(const RunRequest& request)
+{
+  using namespace ember;
+  const auto wall_start = std::chrono::steady_clock::now();
+  inputs::Scenario scenario = inputs::load_scenario(request.scenario.string());
+  if (request.resolution)
+    scenario.mesh.resolution = *request.resolution;
+  if (request.threads)
+    scenario.threads = *request.threads;
+  ResultFolder folder(request.output, request.force); // refuse early, before the solve
+
+  const inputs::BuiltModel model = inputs::build_model(scenario);
+  std::printf("emberlith: %s — %zu cells, %zu nodes, %zu bodies\n", request.scenario.c_str(),
+    model.mesh.n_cells(), model.mesh.n_points(), scenario.bodies.size());
+
+  // The same filters as in the viewer, fed what the scenario defines.
+  vtkSmartPointer<vtkUnstructuredGrid> grid = bridge::to_vtk_grid(model.mesh);
+  const std::string library_yaml = inputs::rock_library_yaml(scenario);
+  const std::string regions_yaml = inputs::region_map_yaml(scenario);
+  vtkNew<vtkEmberRockAssignment> rocks;
+  rocks->SetInputData(grid);
+  rocks->SetRockLibraryText(library_yaml, request.scenario.string() + " (rocks)");
+  rocks->SetRegionMapText(regions_yaml, request.scenario.string() + " (regions)");
+  vtkNew<vtkEmberCoolingSimulation> sim;
+  sim->SetInputConnection(rocks->GetOutputPort());
+  sim->SetBoundaryConditions(scenario.boundaries);
+  sim->SetInitialStateOverride(scenario.initial);
+  sim->SetOutputSchedule(vtkEmberCoolingSimulation::EXPLICIT_LIST);
+  std::vector<double> years;
+  for (double t : scenario.output_times)
+  {
+    years.push_back(t / kSecondsPerYear);
+    sim->AddOutputTime(years.back());
+  }
+  sim->SetIntegrator(scenario.integrator == inputs::IntegratorKind::ForwardEuler
+      ? vtkEmberCoolingSimulation::FORWARD_EULER
+      : vtkEmberCoolingSimulation::RKL2);
+  sim->SetThreads(scenario.threads);
+
+  ProgressLine line("solving", request.progress);
+  ProgressRelay relay{ &line, years.back() };
+  vtkNew<vtkCallbackCommand> on_progress;
+  on_progress->SetCallback(&ProgressRelay::relay);
+  on_progress->SetClientData(&relay);
+  sim->AddObserver(vtkCommand::ProgressEvent, on_progress);
+  sim->UpdateInformation();
+  sim->UpdateTimeStep(years.front());
+  if (sim->GetSolveCount() != 1)
+  {
+    line.done();
+    using F = vtkEmberCoolingSimulation::Failure;
+    const F kind = sim->GetLastFailure();
+    throw SimulationFailed(kind == F::Input ? kBadInput : kind == F::Stopped ? kRunStopped : kInternalError,
+      (kind == F::Stopped ? "the run stopped: " : "error: ") + sim->GetLastErrorMessage());
+  }
+  line.done("t = " + natural_time(scenario.output_times.back()));
+
+  // The time series, the model's inputs (to reopen in the viewer), the provenance.
+  const fs::path out = folder.staging();
+  fs::create_directories(out / "frames");
+  fs::create_directories(out / "model");
+  std::ofstream pvd(out / "temperature.pvd");
+  pvd << "<?xml version=\"1.0\"?>\n<VTKFile type=\"Collection\" version=\"0.1\">\n  <Collection>\n";
+  nlohmann::json frames = nlohmann::json::array();
+  for (std::size_t k = 0; k < years.size(); ++k)
+  {
+    sim->UpdateTimeStep(years[k]);
+    vtkNew<vtkUnstructuredGrid> frame;
+    frame->ShallowCopy(sim->GetOutput());
+    char name[64];
+    std::snprintf(name, sizeof name, "frames/temperature_%04zu.vtu", k);
+    write_vtu(frame, out / name);
+    pvd << "    <DataSet timestep=\"" << years[k] << "\" file=\"" << name << "\"/>\n";
+    frames.push_back({ { "time_yr", years[k] }, { "file", name } });
+  }
+  pvd << "  </Collection>\n</VTKFile>\n";
+  pvd.close();
+  write_vtu(grid, out / "model" / "mesh.vtu");
+  std::ofstream(out / "model" / "rocks.yaml") << library_yaml;
+  std::ofstream(out / "model" / "regions.yaml") << regions_yaml;
+  fs::copy_file(request.scenario, out / "model" / "scenario.yaml");
+
+  const EnergyLedger ledger = sim->GetEnergyLedger();
+  const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
+  nlohmann::json provenance = {
+    { "program", "emberlith" },
+    { "version", EMBERLITH_VERSION },
+    { "created_utc", utc_now() },
+    { "scenario", fs::absolute(request.scenario).string() },
+    { "scenario_md5", md5_of_file(request.scenario) },
+    { "mesh", { { "cells", model.mesh.n_cells() }, { "nodes", model.mesh.n_points() },
+                { "resolution_factor", scenario.mesh.resolution } } },
+    { "integrator", scenario.integrator == inputs::IntegratorKind::ForwardEuler ? "forward-euler" : "rkl2" },
+    { "threads", scenario.threads },
+    { "time_steps", sim->GetStepsTaken() },
+    { "operator_applications", sim->GetOperatorApplications() },
+    { "energy_ledger_J", { { "initial", ledger.initial }, { "stored_change", ledger.stored_change },
+                           { "boundary", ledger.boundary }, { "radiogenic", ledger.source },
+                           { "emplaced", ledger.emplaced }, { "imbalance", ledger.imbalance() },
+                           { "relative_imbalance", ledger.relative_imbalance() } } },
+    { "wall_time_s", wall },
+    { "frames", frames },
+  };
+  std::ofstream(out / kProvenanceFile) << provenance.dump(2) << "\n";
+  folder.commit();
+
+  std::printf("solved %lld steps (%lld operator applications) in %.1f s; energy imbalance %.1e (relative)\n",
+    static_cast<long long>(sim->GetStepsTaken()), static_cast<long long>(sim->GetOperatorApplications()),
+    wall, ledger.relative_imbalance());
+  std::printf("results: %s\n  open in the viewer: paraview %s\n", fs::absolute(folder.target()).c_str(),
+    (fs::absolute(folder.target()) / "temperature.pvd").c_str());
+  std::printf("%s\n", kCaution);
+  return kOk;
+}
+} // namespace emberlith
