@@ -143,6 +143,31 @@ HeatOperator::HeatOperator(const ThermalModel& model, std::vector<BoundaryCondit
   for (const auto& [node, T] : fixed_)
     is_fixed_[node] = 1;
   cell_flux_.resize(mesh.cell_nodes.size());
+  if (mesh.cell_nodes.size() > std::numeric_limits<std::uint32_t>::max())
+    throw std::invalid_argument("mesh too large for the heat operator: " +
+      std::to_string(mesh.cell_nodes.size()) + " cell-node entries (at most 2^32 - 1)");
+  gather_start_.assign(model.n_nodes() + 1, 0);
+  gather_.reserve(mesh.cell_nodes.size());
+  for (std::size_t i = 0; i < model.n_nodes(); ++i)
+  {
+    for (const CellSlot& slot : model.cells_of(i))
+      gather_.push_back(static_cast<std::uint32_t>(mesh.cell_offsets[slot.cell] + slot.local));
+    gather_start_[i + 1] = static_cast<std::int64_t>(gather_.size());
+  }
+  const ElementMatrices& em = model.elements();
+  row_abs_sum_.resize(mesh.cell_nodes.size());
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+  {
+    const std::size_t m = mesh.nodes(c).size();
+    for (std::size_t a = 0; a < m; ++a)
+    {
+      const double* row = em.stiffness.data() + em.stiffness_offsets[c] + a * m;
+      double row_sum = 0.0;
+      for (std::size_t b = 0; b < m; ++b)
+        row_sum += std::abs(row[b]);
+      row_abs_sum_[mesh.cell_offsets[c] + a] = row_sum;
+    }
+  }
   refresh();
 }
 
@@ -193,8 +218,8 @@ void HeatOperator::rate(const std::vector<double>& T, std::vector<double>& dEdt,
         for (std::size_t i = r.begin(); i != r.end(); ++i)
         {
           double s = model.node_source(i);
-          for (const CellSlot& slot : model.cells_of(i))
-            s += cell_flux_[mesh.cell_offsets[slot.cell] + slot.local];
+          for (std::int64_t k = gather_start_[i]; k < gather_start_[i + 1]; ++k)
+            s += cell_flux_[gather_[k]];
           dEdt[i] = s;
         }
       });
@@ -232,10 +257,9 @@ double HeatOperator::stable_time_step(const std::vector<double>& T, tbb::task_ar
 {
   const ThermalModel& model = *model_;
   const Mesh& mesh = model.mesh();
-  const ElementMatrices& em = model.elements();
   const std::size_t n = model.n_nodes();
-  std::vector<double> stiffness(n, 0.0); // Σ |A_ib| per node row [W/K]
-  std::vector<double> cell_k(mesh.n_cells());
+  std::vector<double>& stiffness = node_stiffness_; // Σ |A_ib| per node row [W/K]
+  stiffness.resize(n);
   arena.execute([&] {
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, mesh.n_cells(), kGrain / 8),
       [&](const tbb::blocked_range<std::size_t>& r) {
@@ -245,7 +269,11 @@ double HeatOperator::stable_time_step(const std::vector<double>& T, tbb::task_ar
           double mean = 0.0;
           for (std::int64_t node : nodes)
             mean += T[node];
-          cell_k[c] = conductivity(model.rocks()[model.cell_rock()[c]], mean / nodes.size());
+          // k_c Σ_b |K^c_ab| per cell-node, into the rate's scratch (not in use here).
+          const double k = conductivity(model.rocks()[model.cell_rock()[c]], mean / nodes.size());
+          const std::int64_t start = mesh.cell_offsets[c];
+          for (std::size_t a = 0; a < nodes.size(); ++a)
+            cell_flux_[start + a] = k * row_abs_sum_[start + a];
         }
       });
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
@@ -253,16 +281,8 @@ double HeatOperator::stable_time_step(const std::vector<double>& T, tbb::task_ar
         for (std::size_t i = r.begin(); i != r.end(); ++i)
         {
           double s = 0.0;
-          for (const CellSlot& slot : model.cells_of(i))
-          {
-            const std::size_t m = mesh.nodes(slot.cell).size();
-            const double* row =
-              em.stiffness.data() + em.stiffness_offsets[slot.cell] + slot.local * m;
-            double row_sum = 0.0;
-            for (std::size_t b = 0; b < m; ++b)
-              row_sum += std::abs(row[b]);
-            s += cell_k[slot.cell] * row_sum;
-          }
+          for (std::int64_t k = gather_start_[i]; k < gather_start_[i + 1]; ++k)
+            s += cell_flux_[gather_[k]];
           stiffness[i] = s;
         }
       });
@@ -270,10 +290,17 @@ double HeatOperator::stable_time_step(const std::vector<double>& T, tbb::task_ar
   for (const Group& g : groups_)
     for (const NodeArea& na : g.nodes)
       stiffness[na.node] += na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
-  double lambda = 0.0; // max is exact under any partition
-  for (std::size_t i = 0; i < n; ++i)
-    if (!is_fixed_[i] && min_capacity_[i] > 0.0)
-      lambda = std::max(lambda, stiffness[i] / min_capacity_[i]);
+  const double lambda = arena.execute([&] { // max is exact under any partition
+    return tbb::parallel_reduce(
+      tbb::blocked_range<std::size_t>(0, n, kGrain), 0.0,
+      [&](const tbb::blocked_range<std::size_t>& r, double worst) {
+        for (std::size_t i = r.begin(); i != r.end(); ++i)
+          if (!is_fixed_[i] && min_capacity_[i] > 0.0)
+            worst = std::max(worst, stiffness[i] / min_capacity_[i]);
+        return worst;
+      },
+      [](double a, double b) { return std::max(a, b); });
+  });
   return lambda > 0.0 ? 2.0 / lambda : std::numeric_limits<double>::infinity();
 }
 

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <sstream>
 
 namespace ember
@@ -131,13 +132,14 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess) con
   }
   if (!std::isfinite(E))
     return E;
-  // Bracket the root by expanding from the guess; E_i is strictly increasing.
-  double lo = T_guess - 1.0, hi = T_guess + 1.0;
-  for (double step = 1.0; energy(node, lo) > E && step < 1e7; step *= 2.0)
-    lo -= step;
-  for (double step = 1.0; energy(node, hi) < E && step < 1e7; step *= 2.0)
-    hi += step;
-  double T = std::clamp(T_guess, lo, hi);
+  // Newton from the guess (a step's change is small: two or three iterations), with a
+  // bracket built from the iterates themselves: E_i is strictly increasing and dE/dT > 0, so
+  // each Newton step heads for the side not yet seen and never leaves the bracket before
+  // both sides are known. Once they are, any step that leaves it is replaced by bisection
+  // (the kinks at solidus and liquidus make plain Newton cycle).
+  double lo = -std::numeric_limits<double>::infinity();
+  double hi = std::numeric_limits<double>::infinity();
+  double T = T_guess;
   for (int iteration = 0; iteration < 200; ++iteration)
   {
     const double residual = energy(node, T) - E;
@@ -145,6 +147,8 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess) con
       return T;
     (residual > 0.0 ? hi : lo) = T;
     const double newton = T - residual / capacity(node, T);
+    if (!(newton > lo && newton < hi) && !(std::isfinite(lo) && std::isfinite(hi)))
+      return T; // correction below round-off (newton == T) before both sides are known
     const double next = (newton > lo && newton < hi) ? newton : 0.5 * (lo + hi);
     if (std::abs(next - T) <= 1e-12 * (1.0 + std::abs(T)) || hi - lo <= 1e-12 * (1.0 + std::abs(T)))
       return next;

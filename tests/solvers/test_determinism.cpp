@@ -1,6 +1,8 @@
 // Results are bitwise identical for any thread count (DEVELOPERS.md, determinism rule).
 #include "test_support.h"
 
+#include "ember/integrators.h"
+
 #include <gtest/gtest.h>
 
 #include <cstring>
@@ -10,7 +12,7 @@ using namespace ember::testing;
 
 namespace
 {
-SimulationResult run(int threads)
+SimulationResult run(int threads, IntegratorKind kind)
 {
   Mesh mesh = make_box_hex({ 0, 0, -12 }, { 24, 24, 0 }, { 24, 24, 12 });
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
@@ -33,29 +35,32 @@ SimulationResult run(int threads)
   SimulationSettings s;
   s.output_times = { 0.02 * kSecondsPerYear, 0.1 * kSecondsPerYear };
   s.threads = threads;
-  ForwardEuler fe;
+  const auto integrator = make_integrator(kind);
   return simulate(model, { top }, { InitialState::Kind::Geotherm, 10, 0.03, 0 },
-    { { 1, 1, 0.01 * kSecondsPerYear, 1150 } }, s, fe);
+    { { 1, 1, 0.01 * kSecondsPerYear, 1150 } }, s, *integrator);
 }
 } // namespace
 
 TEST(Determinism, BitwiseIdenticalForOneTwoAndThreeThreads)
 {
-  const SimulationResult one = run(1);
-  ASSERT_GT(one.steps, 5u);
-  for (int threads : { 2, 3 })
+  for (IntegratorKind kind : { IntegratorKind::ForwardEuler, IntegratorKind::RKL2 })
   {
-    const SimulationResult other = run(threads);
-    ASSERT_EQ(one.snapshots.size(), other.snapshots.size());
-    for (std::size_t k = 0; k < one.snapshots.size(); ++k)
+    const SimulationResult one = run(1, kind);
+    ASSERT_GT(one.steps, 5u);
+    for (int threads : { 2, 3 })
     {
-      const auto& a = one.snapshots[k].temperature;
-      const auto& b = other.snapshots[k].temperature;
-      ASSERT_EQ(a.size(), b.size());
-      EXPECT_EQ(0, std::memcmp(a.data(), b.data(), a.size() * sizeof(double)))
-        << threads << " threads, snapshot " << k;
+      const SimulationResult other = run(threads, kind);
+      ASSERT_EQ(one.snapshots.size(), other.snapshots.size());
+      for (std::size_t k = 0; k < one.snapshots.size(); ++k)
+      {
+        const auto& a = one.snapshots[k].temperature;
+        const auto& b = other.snapshots[k].temperature;
+        ASSERT_EQ(a.size(), b.size());
+        EXPECT_EQ(0, std::memcmp(a.data(), b.data(), a.size() * sizeof(double)))
+          << integrator_name(kind) << ", " << threads << " threads, snapshot " << k;
+      }
+      EXPECT_EQ(one.ledger.boundary, other.ledger.boundary);
+      EXPECT_EQ(one.ledger.emplaced, other.ledger.emplaced);
     }
-    EXPECT_EQ(one.ledger.boundary, other.ledger.boundary);
-    EXPECT_EQ(one.ledger.emplaced, other.ledger.emplaced);
   }
 }

@@ -37,6 +37,19 @@ inline Mesh column(double depth, int n, double width, bool tets)
   return make_box_hex({ 0, 0, -depth }, { width, width, 0 }, { 1, 1, n });
 }
 
+/// Put the cells whose centroid lies at z_lo < z < z_hi into `region` (a sill-like layer).
+inline void mark_layer(Mesh& mesh, double z_lo, double z_hi, int region = 1)
+{
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+  {
+    double zc = 0;
+    for (auto n : mesh.nodes(c))
+      zc += mesh.points[n][2] / mesh.nodes(c).size();
+    if (zc > z_lo && zc < z_hi)
+      mesh.cell_region[c] = region;
+  }
+}
+
 /// Value of a nodal field at depth d, averaged over the nodes at that depth (exact level).
 inline double at_depth(const Mesh& mesh, const std::vector<double>& f, double d)
 {

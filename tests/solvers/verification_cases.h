@@ -4,6 +4,8 @@
 
 #include "test_support.h"
 
+#include "ember/integrators.h"
+
 #include <boost/math/tools/roots.hpp>
 
 #include <cmath>
@@ -78,29 +80,23 @@ struct Sheet
 /// Half the sheet: symmetry plane at z = 0 (insulated base), the sheet fills −b < z < 0 measured
 /// from the model top... we use depth d = distance from the symmetry plane, mesh top far away.
 inline ColumnRun run_sheet(const Sheet& p, double extent, int cells, bool tets,
-  const std::vector<double>& times, int threads = 0, double width = 1.0)
+  const std::vector<double>& times, int threads = 0, double width = 1.0,
+  IntegratorKind kind = IntegratorKind::ForwardEuler)
 {
   // Column from z = −extent (symmetry plane, insulated) up to z = 0 (far field, insulated):
   // distance from the sheet centre is x = z + extent.
   ColumnRun run{ tets ? make_box_tet({ 0, 0, -extent }, { width, width, 0 }, { 1, 1, cells })
                       : make_box_hex({ 0, 0, -extent }, { width, width, 0 }, { 1, 1, cells }),
     {}, width * width };
-  for (std::size_t c = 0; c < run.mesh.n_cells(); ++c)
-  {
-    double zc = 0;
-    for (auto n : run.mesh.nodes(c))
-      zc += run.mesh.points[n][2] / run.mesh.nodes(c).size();
-    if (zc + extent < p.b)
-      run.mesh.cell_region[c] = 1;
-  }
+  mark_layer(run.mesh, -2 * extent, p.b - extent);
   const Rock rock = simple_rock("rock", p.k, p.rho, p.c);
   ThermalModel model(run.mesh, { rock }, std::vector<int>(run.mesh.n_cells(), 0));
   SimulationSettings s;
   s.output_times = times;
   s.threads = threads;
-  ForwardEuler fe;
-  run.result =
-    simulate(model, {}, { InitialState::Kind::Uniform, p.Th }, { { 1, 0, 0.0, p.T0 } }, s, fe);
+  const auto integrator = make_integrator(kind);
+  run.result = simulate(
+    model, {}, { InitialState::Kind::Uniform, p.Th }, { { 1, 0, 0.0, p.T0 } }, s, *integrator);
   return run;
 }
 

@@ -105,7 +105,17 @@ private:
   std::vector<std::pair<std::int64_t, double>> fixed_;
   std::vector<char> is_fixed_;
   std::vector<double> min_capacity_; ///< per node, J/K, sensible heat only
+  /// Σ_b |K^c_ab| per cell-node (aligned with cell_nodes): the geometric part of the
+  /// Gershgorin bound, fixed by the mesh, so the stable step reads 8 bytes per cell-node
+  /// instead of the element matrix row.
+  std::vector<double> row_abs_sum_;
+  /// Node i's cell-node entries (positions in cell_nodes) in ascending cell order, at
+  /// gather_[gather_start_[i]] .. gather_[gather_start_[i+1]-1]: the fixed gather order
+  /// behind determinism, flattened so the gather reads 4 bytes per entry and no cell offsets.
+  std::vector<std::int64_t> gather_start_;
+  std::vector<std::uint32_t> gather_;
   mutable std::vector<double> cell_flux_; ///< per cell-node scratch, aligned with cell_nodes
+  mutable std::vector<double> node_stiffness_; ///< per node scratch of the stable step [W/K]
 };
 
 } // namespace ember

@@ -60,9 +60,10 @@ public:
   /// Volume-weighted melt fraction of the node's control volume.
   double melt_fraction(std::size_t node, double T) const;
   /**
-   * T such that E_i(T) = E [°C]: Newton's method on the monotone E_i, safeguarded by a
-   * bracket that is bisected whenever a Newton step leaves it (the kinks at solidus and
-   * liquidus make plain Newton cycle). Converges to ~1e-10 K.
+   * T such that E_i(T) = E [°C]: Newton's method on the monotone E_i from T_guess,
+   * safeguarded by the bracket its iterates build, which is bisected whenever a Newton step
+   * leaves it (the kinks at solidus and liquidus make plain Newton cycle). Converges to
+   * ~1e-10 K.
    */
   double temperature(std::size_t node, double E, double T_guess) const;
 

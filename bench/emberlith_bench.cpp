@@ -1,0 +1,575 @@
+// emberlith-bench — measures the explicit solver against this machine's memory bandwidth.
+//
+// One process run prints one machine-readable line per figure:
+//   figure name=<id> value=<number> unit=<unit> [key=value ...]
+// and free-text lines starting with '#'. See bench/README.md for what each figure means, the
+// targets of issue #7 and the figures measured.
+//
+// Usage: emberlith-bench [--quick] [--section NAME]...
+//   --quick      small sizes (seconds; used by the ctest smoke test)
+//   --section    stream | step | csr | growth | memory | sill (repeatable; default all)
+#include "ember/integrators.h"
+#include "ember/rkl2.h"
+#include "ember/simulation.h"
+
+#include <oneapi/tbb/blocked_range.h>
+#include <oneapi/tbb/parallel_for.h>
+#include <oneapi/tbb/task_arena.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <cstring>
+#include <fstream>
+#include <functional>
+#include <set>
+#include <string>
+#include <vector>
+
+using namespace ember;
+
+namespace
+{
+using Clock = std::chrono::steady_clock;
+
+bool quick = false;
+// Figures are quoted at 1 and 2 threads: the machine kind has 2 cores (issue #7).
+constexpr int kThreadCounts[] = { 1, 2 };
+
+void figure(const std::string& name, double value, const char* unit, const std::string& extra = "")
+{
+  std::printf("figure name=%s value=%.6g unit=%s%s%s\n",
+              name.c_str(),
+              value,
+              unit,
+              extra.empty() ? "" : " ",
+              extra.c_str());
+  std::fflush(stdout);
+}
+
+// Best (shortest) wall time of `repeats` runs of f [s]: the machines are shared and noisy, the
+// minimum is the most repeatable estimate of what the code itself costs.
+double best_time(int repeats, const std::function<void()>& f)
+{
+  double best = 1e300;
+  for (int r = 0; r < repeats; ++r)
+  {
+    const auto t0 = Clock::now();
+    f();
+    best = std::min(best, std::chrono::duration<double>(Clock::now() - t0).count());
+  }
+  return best;
+}
+
+double resident_bytes()
+{
+  std::ifstream statm("/proc/self/statm");
+  double pages = 0, resident = 0;
+  statm >> pages >> resident;
+  return resident * 4096.0;
+}
+
+// ---- STREAM-style triad a = b + s·c (McCalpin's STREAM convention: 24 bytes per element) ----
+double stream_triad(int threads)
+{
+  const std::size_t n = quick ? (std::size_t(1) << 22) : (std::size_t(1) << 25); // 3×256 MB
+  std::vector<double> a(n), b(n), c(n);
+  tbb::task_arena arena(threads);
+  auto fill = [&]
+  {
+    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 1 << 16),
+                      [&](const tbb::blocked_range<std::size_t>& r)
+                      {
+                        for (std::size_t i = r.begin(); i != r.end(); ++i)
+                          a[i] = 0.0, b[i] = 1.0,
+                          c[i] = 2.0; // first touch by the threads that use them
+                      });
+  };
+  arena.execute(fill);
+  const double t =
+    best_time(quick ? 3 : 10,
+              [&]
+              {
+                arena.execute(
+                  [&]
+                  {
+                    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 1 << 16),
+                                      [&](const tbb::blocked_range<std::size_t>& r)
+                                      {
+                                        for (std::size_t i = r.begin(); i != r.end(); ++i)
+                                          a[i] = b[i] + 3.0 * c[i];
+                                      });
+                  });
+              });
+  return 24.0 * n / t;
+}
+
+// ---- The benchmark model: a sill with latent heat in host rock, T-dependent k and c ----------
+struct Problem
+{
+  Mesh mesh;
+  std::unique_ptr<ThermalModel> model;
+  std::unique_ptr<HeatOperator> op;
+  std::vector<double> T, E;
+};
+
+// Box of ~nodes nodes (cube of cells), hexahedra or tetrahedra; the middle fifth in z is a
+// sill whose nodes sit inside its crystallisation interval, so latent heat is active there.
+Problem make_problem(double nodes, bool tets)
+{
+  const int cells = std::max(2, static_cast<int>(std::lround(std::cbrt(nodes))) - 1);
+  const double L = 1000.0;
+  Problem p;
+  p.mesh = tets ? make_box_tet({ 0, 0, -L }, { L, L, 0 }, { cells, cells, cells })
+                : make_box_hex({ 0, 0, -L }, { L, L, 0 }, { cells, cells, cells });
+  for (std::size_t c = 0; c < p.mesh.n_cells(); ++c)
+  {
+    const double z = p.mesh.points[p.mesh.nodes(c)[0]][2];
+    if (z > -0.6 * L && z < -0.4 * L)
+      p.mesh.cell_region[c] = 1;
+  }
+  Rock host;
+  host.name = "shale";
+  host.density = 2500;
+  host.conductivity.law = Conductivity::Law::VosteenSchellschmidt;
+  host.conductivity.crystalline = false;
+  host.conductivity.k_ref = 1.8;
+  host.heat_capacity.law = HeatCapacity::Law::WaplesWaples;
+  host.heat_capacity.c_ref = 900;
+  Rock sill;
+  sill.name = "dolerite";
+  sill.density = 2900;
+  sill.conductivity.law = Conductivity::Law::VosteenSchellschmidt;
+  sill.conductivity.k_ref = 2.2;
+  sill.heat_capacity.c_ref = 1100;
+  sill.latent_heat = 4e5;
+  sill.solidus = 980;
+  sill.liquidus = 1150;
+  std::vector<int> rock(p.mesh.n_cells());
+  for (std::size_t c = 0; c < rock.size(); ++c)
+    rock[c] = p.mesh.cell_region[c];
+  p.model = std::make_unique<ThermalModel>(p.mesh, std::vector<Rock>{ host, sill }, rock);
+  BoundaryCondition top;
+  top.kind = BoundaryCondition::Kind::FixedTemperature;
+  top.temperature = 10;
+  BoundaryCondition base;
+  base.kind = BoundaryCondition::Kind::HeatFlux;
+  base.side = Side::Bottom;
+  base.heat_flux = 0.06;
+  p.op = std::make_unique<HeatOperator>(*p.model, std::vector<BoundaryCondition>{ top, base });
+  const std::size_t n = p.mesh.n_points();
+  p.T.resize(n);
+  p.E.resize(n);
+  for (std::size_t i = 0; i < n; ++i)
+  {
+    const double z = p.mesh.points[i][2];
+    p.T[i] = (z > -0.6 * L && z < -0.4 * L) ? 1060.0 : 10.0 - 0.03 * z;
+    p.E[i] = p.model->energy(i, p.T[i]);
+  }
+  for (const auto& [node, value] : p.op->fixed_nodes())
+    p.T[node] = value;
+  return p;
+}
+
+// Node-updates per second of one full forward-Euler step (stable step, rate, update, T(E)).
+// The step is 1 s long so the state, and with it the cost, stays the same across repeats.
+double step_throughput(Problem& p, int threads, int repeats)
+{
+  tbb::task_arena arena(threads);
+  ForwardEuler fe;
+  fe.advance(*p.model, *p.op, 1.0, 0.9, p.E, p.T, arena); // warm-up, allocations
+  const double t =
+    best_time(repeats, [&] { fe.advance(*p.model, *p.op, 1.0, 0.9, p.E, p.T, arena); });
+  return p.mesh.n_points() / t;
+}
+
+// Components of the step, to see where the time goes [s per call].
+void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
+{
+  tbb::task_arena arena(threads);
+  std::vector<double> rate;
+  PowerTally tally;
+  const int repeats = quick ? 2 : 10;
+  const double n = p.mesh.n_points();
+  const std::string tag = "mesh=" + mesh_name + " threads=" + std::to_string(threads);
+  figure("rate_throughput",
+         n / best_time(repeats, [&] { p.op->rate(p.T, rate, tally, arena); }),
+         "node-updates/s",
+         tag);
+  figure("stable_step_throughput",
+         n / best_time(repeats, [&] { (void)p.op->stable_time_step(p.T, arena); }),
+         "node-updates/s",
+         tag);
+  // T(E) after a real step's change of E (with E and T already consistent the Newton
+  // iteration would stop at once and flatter the figure); T is reset to the old guess first.
+  const std::vector<double> T_old = p.T;
+  std::vector<double> E_new = p.E;
+  for (std::size_t i = 0; i < E_new.size(); ++i)
+    E_new[i] += 1.0 * rate[i];
+  figure("temperature_recovery_throughput",
+         n / best_time(repeats,
+                       [&]
+                       {
+                         std::copy(T_old.begin(), T_old.end(), p.T.begin());
+                         update_temperatures(*p.model, *p.op, E_new, p.T, arena);
+                       }),
+         "node-updates/s",
+         tag);
+  p.T = T_old;
+}
+
+// ---- CSR yardstick: y = A x with the assembled stiffness pattern of the same mesh ------------
+struct Csr
+{
+  std::vector<std::int64_t> row_start;
+  std::vector<std::int32_t> column; // 4 bytes + 8 bytes value = the yardstick's 12 B/nonzero
+  std::vector<double> value;
+};
+
+Csr assemble_csr(const ThermalModel& model)
+{
+  const Mesh& mesh = model.mesh();
+  const ElementMatrices& em = model.elements();
+  const std::size_t n = mesh.n_points();
+  Csr a;
+  a.row_start.assign(n + 1, 0);
+  std::vector<std::pair<std::int64_t, double>> row;
+  for (std::size_t i = 0; i < n; ++i)
+  {
+    row.clear();
+    for (const CellSlot& slot : model.cells_of(i))
+    {
+      const auto nodes = mesh.nodes(slot.cell);
+      const std::size_t m = nodes.size();
+      const double* K = em.stiffness.data() + em.stiffness_offsets[slot.cell] + slot.local * m;
+      for (std::size_t b = 0; b < m; ++b)
+        row.emplace_back(nodes[b], K[b]);
+    }
+    std::sort(row.begin(), row.end());
+    for (std::size_t k = 0; k < row.size(); ++k)
+    {
+      if (k > 0 && row[k].first == row[k - 1].first)
+      {
+        a.value.back() += row[k].second;
+        continue;
+      }
+      a.column.push_back(static_cast<std::int32_t>(row[k].first));
+      a.value.push_back(row[k].second);
+    }
+    a.row_start[i + 1] = static_cast<std::int64_t>(a.value.size());
+  }
+  return a;
+}
+
+double csr_throughput(const Csr& a, int threads, int repeats)
+{
+  const std::size_t n = a.row_start.size() - 1;
+  std::vector<double> x(n, 1.0), y(n, 0.0);
+  tbb::task_arena arena(threads);
+  auto spmv = [&]
+  {
+    arena.execute(
+      [&]
+      {
+        tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 2048),
+                          [&](const tbb::blocked_range<std::size_t>& r)
+                          {
+                            for (std::size_t i = r.begin(); i != r.end(); ++i)
+                            {
+                              double s = 0.0;
+                              for (std::int64_t k = a.row_start[i]; k < a.row_start[i + 1]; ++k)
+                                s += a.value[k] * x[a.column[k]];
+                              y[i] = s;
+                            }
+                          });
+      });
+  };
+  spmv();
+  return n / best_time(repeats, spmv);
+}
+
+// Bytes one forward-Euler step streams per node, counted from the arrays each pass reads or
+// writes once (compulsory traffic; writes count twice for write-allocate; the gathers of T
+// through the connectivity are assumed to hit cache). Per pass:
+//   stable step: cells (connectivity 8/cell-node, rock 4, offsets 8) + Σ|K| rows 8 and
+//     k·Σ|K| out 8+8 per cell-node; nodes: gather (4 + 8 per entry), start 8, row sum 8+8,
+//     then λ: row sum 8, capacity 8, held flag 1;
+//   rate: cells (connectivity, rock, two offsets) + stiffness 8·m² per cell + flux out 8+8 per
+//     cell-node; nodes: gather (4 + 8 per entry), start 8, source 8, rate 8+8; source sum 8 + 1;
+//   update: E 8+8, rate 8;  T(E): E 8, T 8+8, share offset 8, 24 per node share.
+double step_bytes_per_node(const ThermalModel& model)
+{
+  const Mesh& mesh = model.mesh();
+  const double n = mesh.n_points(), cells = mesh.n_cells();
+  const double entries = mesh.cell_nodes.size();
+  const double stiffness = model.elements().stiffness.size();
+  double shares = 0;
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+    shares += model.shares(i).size();
+  const double stable = entries * 8 + cells * (4 + 8) + entries * (8 + 16) + entries * (4 + 8) +
+                        n * (8 + 16) + n * (8 + 8 + 1);
+  const double rate = entries * 8 + cells * (4 + 8 + 8) + stiffness * 8 + entries * 16 +
+                      entries * (4 + 8) + n * (8 + 8 + 16) + n * (8 + 1);
+  const double update = n * (16 + 8);
+  const double recovery = n * (8 + 16 + 8) + shares * 24;
+  return (stable + rate + update + recovery) / n;
+}
+
+// Solver state per node [B], counted from the containers the run keeps (mesh, element
+// matrices, node-cell slots, shares, operator scratch, E and T, the integrator's vectors).
+double state_bytes_per_node(const ThermalModel& model, IntegratorKind kind)
+{
+  const Mesh& mesh = model.mesh();
+  const ElementMatrices& em = model.elements();
+  const double n = mesh.n_points(), cells = mesh.n_cells();
+  const double slots = mesh.cell_nodes.size();
+  double shares = 0;
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+    shares += model.shares(i).size();
+  const double mesh_bytes = n * 24 + cells * (1 + 8 + 4) + slots * 8;
+  const double element_bytes = em.stiffness.size() * 8.0 + cells * 8 * 2 + slots * 8;
+  const double model_bytes = cells * 4 + n * 8 + slots * 16 + n * 8 + shares * 24 + n * 16;
+  const double operator_bytes = slots * (8 + 8 + 4) + n * (8 + 8 + 8 + 1); // flux, Σ|K|, gather
+  const double integrator_vectors = kind == IntegratorKind::RKL2 ? 6 : 1;  // + E and T
+  return (mesh_bytes + element_bytes + model_bytes + operator_bytes) / n + 8 * 2 +
+         8 * integrator_vectors;
+}
+
+// ---- Sections ---------------------------------------------------------------------------------
+double triad_two_threads = 0.0;
+
+void section_stream()
+{
+  for (int threads : kThreadCounts)
+  {
+    const double bw = stream_triad(threads);
+    if (threads == 2)
+      triad_two_threads = bw;
+    figure("stream_triad", bw / 1e9, "GB/s", "threads=" + std::to_string(threads));
+  }
+}
+
+void section_step_and_csr(bool step, bool csr)
+{
+  if (triad_two_threads == 0.0)
+    triad_two_threads = stream_triad(2);
+  const double nodes = quick ? 1e5 : 1e6;
+  for (bool tets : { false, true })
+  {
+    const std::string mesh_name = tets ? "tet" : "hex";
+    Problem p = make_problem(nodes, tets);
+    const std::string size = " nodes=" + std::to_string(p.mesh.n_points());
+    std::printf(
+      "# %s mesh: %zu nodes, %zu cells\n", mesh_name.c_str(), p.mesh.n_points(), p.mesh.n_cells());
+    double step_2t = 0, step_1t = 0, csr_2t = 0;
+    if (step)
+      for (int threads : kThreadCounts)
+      {
+        const double v = step_throughput(p, threads, quick ? 2 : 15);
+        (threads == 1 ? step_1t : step_2t) = v;
+        figure("step_throughput",
+               v,
+               "node-updates/s",
+               "mesh=" + mesh_name + " threads=" + std::to_string(threads) + size +
+                 " integrator=forward-euler physics=k(T),c(T),latent");
+        step_breakdown(p, threads, mesh_name);
+      }
+    if (step)
+      figure("step_scaling_2t_over_1t", step_2t / step_1t, "ratio", "mesh=" + mesh_name);
+    const double bytes = step_bytes_per_node(*p.model);
+    figure("step_bytes_per_node", bytes, "B", "mesh=" + mesh_name + " method=counted");
+    figure("step_roofline",
+           triad_two_threads / bytes,
+           "node-updates/s",
+           "mesh=" + mesh_name + " threads=2 bandwidth=triad");
+    if (csr)
+    {
+      const Csr a = assemble_csr(*p.model);
+      const double nnz_per_row = double(a.value.size()) / p.mesh.n_points();
+      const double csr_bytes = 12.0 * nnz_per_row + 16.0; // issue #7's yardstick definition
+      figure("csr_nnz_per_row", nnz_per_row, "1", "mesh=" + mesh_name);
+      figure("csr_yardstick_roofline",
+             triad_two_threads / csr_bytes,
+             "node-updates/s",
+             "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(csr_bytes));
+      // The issue's nominal yardstick: exactly 27 (hex) or 15 (tet) nonzeros per row.
+      const double nominal_bytes = 12.0 * (tets ? 15 : 27) + 16.0;
+      figure("csr_yardstick_roofline_nominal",
+             triad_two_threads / nominal_bytes,
+             "node-updates/s",
+             "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(nominal_bytes));
+      for (int threads : kThreadCounts)
+      {
+        const double v = csr_throughput(a, threads, quick ? 3 : 10);
+        if (threads == 2)
+          csr_2t = v;
+        figure("csr_spmv_throughput",
+               v,
+               "node-updates/s",
+               "mesh=" + mesh_name + " threads=" + std::to_string(threads));
+      }
+      if (step)
+      {
+        figure("step_over_csr_roofline",
+               step_2t / (triad_two_threads / csr_bytes),
+               "ratio",
+               "mesh=" + mesh_name + " threads=2 target=0.8");
+        figure("step_over_csr_measured",
+               step_2t / csr_2t,
+               "ratio",
+               "mesh=" + mesh_name + " threads=2 target=0.8");
+      }
+    }
+    if (step)
+      figure("step_over_own_roofline",
+             step_2t / (triad_two_threads / bytes),
+             "ratio",
+             "mesh=" + mesh_name + " threads=2");
+  }
+}
+
+void section_growth()
+{
+  std::vector<double> sizes =
+    quick ? std::vector<double>{ 1e4, 1e5 } : std::vector<double>{ 1e4, 1e5, 1e6, 4e6 };
+  for (double nodes : sizes)
+  {
+    Problem p = make_problem(nodes, false);
+    const int repeats = nodes < 1e6 ? 40 : nodes < 2e6 ? 15 : 6;
+    figure("step_throughput_growth",
+           step_throughput(p, 2, repeats),
+           "node-updates/s",
+           "mesh=hex threads=2 nodes=" + std::to_string(p.mesh.n_points()));
+  }
+}
+
+void section_memory()
+{
+  const double nodes = quick ? 1e5 : 1e6;
+  const double before = resident_bytes();
+  Problem p = make_problem(nodes, false);
+  tbb::task_arena arena(2);
+  Rkl2 rkl2;
+  rkl2.advance(*p.model, *p.op, 1.0, 0.9, p.E, p.T, arena); // allocates its vectors
+  const double n = p.mesh.n_points();
+  figure("state_bytes_per_node_measured",
+         (resident_bytes() - before) / n,
+         "B",
+         "mesh=hex integrator=rkl2 method=resident-set-growth target=300");
+  figure("state_bytes_per_node_counted",
+         state_bytes_per_node(*p.model, IntegratorKind::RKL2),
+         "B",
+         "mesh=hex integrator=rkl2 method=container-sizes target=300");
+  figure("state_bytes_per_node_counted",
+         state_bytes_per_node(*p.model, IntegratorKind::ForwardEuler),
+         "B",
+         "mesh=hex integrator=forward-euler method=container-sizes target=300");
+  figure("element_matrix_bytes_per_node",
+         p.model->elements().stiffness.size() * 8.0 / n,
+         "B",
+         "mesh=hex");
+}
+
+// Reference time-to-solution problem (issue #7): a 100 m sill (b = 50 m) emplaced at 1150 °C in
+// host rock at 50 °C of the same properties (κ = 1e-6 m²/s), 10 kyr, against the
+// instantaneous-sheet solution θ = ½[erf((b − x)/2√κt) + erf((b + x)/2√κt)] (Carslaw & Jaeger
+// 1959, ch. 2). A column of 5 m cubes from the symmetry plane to 3 km; error = max |θ error| over
+// all nodes and 20 log-spaced outputs from 100 yr.
+void section_sill()
+{
+  const double b = 50.0, k = 2.5, rho = 2500, c = 1000, T0 = 1150, Th = 50;
+  const double kappa = k / (rho * c);
+  const double extent = 3000.0;
+  const int cells = quick ? 300 : 600; // b a whole number of cells
+  const double w = extent / cells;
+  std::vector<double> times(20);
+  for (int i = 0; i < 20; ++i)
+    times[i] = 100 * kSecondsPerYear * std::pow(100.0, i / 19.0);
+  auto theta = [&](double x, double t)
+  {
+    const double s = 2 * std::sqrt(kappa * t);
+    return 0.5 * (std::erf((b - x) / s) + std::erf((b + x) / s));
+  };
+  for (IntegratorKind kind : { IntegratorKind::ForwardEuler, IntegratorKind::RKL2 })
+  {
+    Mesh mesh = make_box_hex({ 0, 0, -extent }, { w, w, 0 }, { 1, 1, cells });
+    for (std::size_t cell = 0; cell < mesh.n_cells(); ++cell)
+      if (mesh.points[mesh.nodes(cell)[0]][2] + extent < b - 1e-9)
+        mesh.cell_region[cell] = 1;
+    Rock rock;
+    rock.name = "rock";
+    rock.density = rho;
+    rock.conductivity.k_ref = k;
+    rock.heat_capacity.c_ref = c;
+    ThermalModel model(mesh, { rock }, std::vector<int>(mesh.n_cells(), 0));
+    SimulationSettings s;
+    s.output_times = times;
+    s.threads = 2;
+    const auto integrator = make_integrator(kind);
+    SimulationResult result;
+    const auto t0 = Clock::now();
+    result = simulate(
+      model, {}, { InitialState::Kind::Uniform, Th }, { { 1, 0, 0.0, T0 } }, s, *integrator);
+    const double wall = std::chrono::duration<double>(Clock::now() - t0).count();
+    double worst = 0, contact = 0;
+    for (const Snapshot& snap : result.snapshots)
+      for (std::size_t i = 0; i < mesh.n_points(); ++i)
+      {
+        const double x = mesh.points[i][2] + extent;
+        const double err = std::abs((snap.temperature[i] - Th) / (T0 - Th) - theta(x, snap.time));
+        worst = std::max(worst, err);
+        if (std::abs(x - b) < 1e-6 * w)
+          contact = std::max(contact, err);
+      }
+    const std::string tag =
+      "integrator=" + integrator_name(kind) + " threads=2 nodes=" + std::to_string(mesh.n_points());
+    figure("sill_wall", wall, "s", tag);
+    figure("sill_operator_applications", double(result.operator_applications), "1", tag);
+    figure("sill_max_theta_error", worst, "1", tag + " target=0.01");
+    figure("sill_contact_theta_error", contact, "1", tag + " target=0.01");
+  }
+}
+} // namespace
+
+int main(int argc, char** argv)
+{
+  std::set<std::string> sections;
+  for (int i = 1; i < argc; ++i)
+  {
+    if (std::strcmp(argv[i], "--quick") == 0)
+      quick = true;
+    else if (std::strcmp(argv[i], "--section") == 0 && i + 1 < argc)
+      sections.insert(argv[++i]);
+    else
+    {
+      std::fprintf(
+        stderr, "usage: %s [--quick] [--section stream|step|csr|growth|memory|sill]...\n", argv[0]);
+      return 2;
+    }
+  }
+  auto want = [&](const char* s) { return sections.empty() || sections.count(s) > 0; };
+  std::printf("# emberlith-bench%s: one 'figure' line per measured figure (bench/README.md)\n",
+              quick ? " --quick" : "");
+  {
+    // Shared machines: the load when the run started says how much the figures can be trusted.
+    std::ifstream loadavg("/proc/loadavg");
+    std::string one, five, fifteen;
+    loadavg >> one >> five >> fifteen;
+    std::printf("# load average at start: %s %s %s (1, 5, 15 min)\n",
+                one.c_str(),
+                five.c_str(),
+                fifteen.c_str());
+  }
+  if (want("memory")) // first, while the heap is fresh, so the resident-set growth is ours
+    section_memory();
+  if (want("stream"))
+    section_stream();
+  if (want("step") || want("csr"))
+    section_step_and_csr(want("step"), want("csr"));
+  if (want("growth"))
+    section_growth();
+  if (want("sill"))
+    section_sill();
+  return 0;
+}
