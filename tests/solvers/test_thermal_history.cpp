@@ -7,6 +7,8 @@
 #include <gtest/gtest.h>
 
 #include <cstring>
+#include <fstream>
+#include <sstream>
 
 using namespace ember;
 using namespace ember::testing;
@@ -291,8 +293,8 @@ bool same_bits(double a, double b)
 // Results are bitwise identical for 1 and 2 threads (DEVELOPERS.md, determinism rule): every
 // recorded array and every summary entry. Also: the emplacement's jump is recorded (interior
 // sill nodes peak at the emplacement temperature at the emplacement time), the organic index
-// covers exactly the host's nodes, and burial maturity of 20 Myr at the geotherm is above the
-// unreacted value and below what the contact reaches.
+// covers exactly the host's nodes, burial maturity of 20 Myr at the geotherm is above the
+// unreacted value and below what the contact reaches, and heat in place follows the ledger.
 TEST(ThermalHistory, DeterministicAcrossThreadCounts)
 {
   const SillRun one = run_sill(1), two = run_sill(2);
@@ -350,4 +352,54 @@ TEST(ThermalHistory, DeterministicAcrossThreadCounts)
   const RegionSummary& sill = one.history->summaries().back().regions.at(1);
   EXPECT_GT(sill.contact_temperature, 500);
   EXPECT_GT(sill.aureole_thickness_reflectance, 0.0);
+  // Heat in place is E evaluated with the output T field, so between two outputs after the
+  // emplacement it changes by the boundary heat (verification.md §11.5): 1e-8 relative.
+  const auto& rows = one.history->summaries();
+  const auto& snaps = one.result.snapshots;
+  const double boundary = snaps[1].boundary_heat - snaps[0].boundary_heat;
+  EXPECT_NEAR((rows[1].model.heat_in_place - rows[0].model.heat_in_place) / boundary, 1.0, 1e-8);
+}
+
+// EASY%Ro (Sweeney & Burnham 1990, AAPG Bull. 74) in the host of the 100 m sill of
+// verification.md §8(d): instantaneous sheet of Carslaw & Jaeger (1959) ch. 2, b = 50 m,
+// T0 = 1150, Th = 50 °C, κ = 1e-6 m²/s, host unreacted, 2000 yr. Expected values from
+// tests/reference/easy_ro_sheet_expected.txt (solve_ivp along the closed-form T(t)).
+// Tolerance 0.05 %Ro absolute: verification.md §8 allows 0.05–0.1 %Ro when T is within 1 % of
+// ΔT (∂%Ro/∂T ≈ 0.01–0.03 per K); at 10 nodes per b the peak is far better than that.
+TEST(ThermalHistory, EasyRoBesideCoolingSill)
+{
+  const std::string path = std::string(EMBER_REFERENCE_DIR) + "/easy_ro_sheet_expected.txt";
+  std::ifstream in(path);
+  ASSERT_TRUE(in) << path;
+  std::vector<std::pair<double, double>> expected; // (distance [m], %Ro)
+  for (std::string line; std::getline(in, line);)
+  {
+    if (line.empty() || line[0] == '#')
+      continue;
+    std::istringstream row(line);
+    double d, ro;
+    row >> d >> ro;
+    expected.emplace_back(d, ro);
+  }
+  ASSERT_EQ(expected.size(), 6u);
+
+  Sheet p;
+  p.b = 50;
+  ASSERT_DOUBLE_EQ(p.kappa(), 1e-6);
+  const double extent = 16 * p.b;
+  const int per_b = 10;
+  ThermalHistorySettings hs;
+  hs.organic = { { 0, {} } }; // the host, unreacted at the start
+  const ColumnRun run = run_sheet(
+    p, extent, 16 * per_b, false, { 2000 * kSecondsPerYear }, 0, p.b / per_b, &hs);
+  const Snapshot& snap = run.result.snapshots.back();
+  const std::vector<double>* ro = nullptr;
+  for (const PointField& f : snap.point_fields)
+    if (f.name == "EasyRo")
+      ro = &f.values;
+  ASSERT_TRUE(ro);
+  for (const auto& [d, value] : expected)
+    EXPECT_NEAR(sheet_value(run, extent, *ro, p.b + d), value, 0.05) << "d = " << d << " m";
+  // Not organic: the sill's interior nodes carry NaN.
+  EXPECT_TRUE(std::isnan(sheet_value(run, extent, *ro, 0.5 * p.b)));
 }
