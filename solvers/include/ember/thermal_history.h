@@ -20,9 +20,9 @@
  *                                   (e.g. "TimeAbove300C", θ printed with %g)
  *  - "EasyRo"                 [%Ro] vitrinite reflectance; NaN on nodes that are not organic
  *
- * Memory: 8·(5 + n_thresholds) + 5 bytes per node (previous T, peak, peak time,
+ * Memory: 8·(4 + n_thresholds) + 5 bytes per node (previous T, peak, peak time,
  * solidification time, time above each threshold, a molten flag, a 4-byte organic index) plus
- * 160 bytes (20 reaction integrals) per organic-bearing node only.
+ * 164 bytes (20 reaction integrals, its region's index) per organic-bearing node only.
  */
 #pragma once
 
