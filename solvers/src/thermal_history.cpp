@@ -44,6 +44,13 @@ void check(const ThermalModel& model, const ThermalHistorySettings& s)
           << s.max_temperature << ") °C";
       throw std::invalid_argument(msg.str());
     }
+    for (std::size_t j = 0; j < k; ++j)
+      if (s.thresholds[j] == th) // two arrays of the same name
+      {
+        std::ostringstream msg;
+        msg << "thermal history: threshold " << k << " (" << th << " °C) repeats threshold " << j;
+        throw std::invalid_argument(msg.str());
+      }
   }
   const Mesh& mesh = model.mesh();
   for (const OrganicRegion& o : s.organic)
@@ -114,6 +121,9 @@ void ThermalHistory::start(double t, const std::vector<double>& T, const Thermal
   tbb::task_arena&)
 {
   const std::size_t n = model.n_nodes();
+  if (organic_index_.size() != n || T.size() != n)
+    throw std::invalid_argument("thermal history: set up for a model of " +
+      std::to_string(organic_index_.size()) + " nodes, started on one of " + std::to_string(n));
   time_ = t;
   previous_T_ = T;
   peak_ = T;
@@ -159,6 +169,8 @@ void ThermalHistory::start(double t, const std::vector<double>& T, const Thermal
 void ThermalHistory::update(double t, const std::vector<double>& T, const ThermalModel& model,
   tbb::task_arena& arena)
 {
+  if (previous_T_.size() != model.n_nodes())
+    throw std::logic_error("thermal history: update() before start()");
   const double t0 = time_, dt = t - time_;
   const std::size_t n_thresholds = settings_.thresholds.size();
   arena.execute([&] {

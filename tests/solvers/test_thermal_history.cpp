@@ -203,6 +203,23 @@ TEST(ThermalHistory, BadInput)
   }
   {
     ThermalHistorySettings s;
+    s.thresholds = { 300, 500, 300 };
+    const std::string m = message_of([&] { ThermalHistory h(model, s); });
+    EXPECT_NE(m.find("threshold 2 (300 °C) repeats threshold 0"), std::string::npos) << m;
+  }
+  {
+    // set up for one model, started on another
+    Mesh other = make_box_hex({ 0, 0, -2 }, { 2, 2, 0 }, { 1, 1, 1 });
+    ThermalModel small(other, { simple_rock("host", 2.5, 2500, 1000) }, { 0 });
+    ThermalHistory h(model, {});
+    tbb::task_arena arena(1);
+    const std::string m = message_of([&] {
+      h.start(0, std::vector<double>(small.n_nodes(), 10.0), small, arena);
+    });
+    EXPECT_NE(m.find("27 nodes"), std::string::npos) << m;
+  }
+  {
+    ThermalHistorySettings s;
     s.organic = { { 7, {} } };
     const std::string m = message_of([&] { ThermalHistory h(model, s); });
     EXPECT_NE(m.find("organic-bearing region 7"), std::string::npos) << m;

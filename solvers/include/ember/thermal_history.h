@@ -45,7 +45,9 @@ struct InitialMaturity
     Unreacted,   ///< all reactions at zero: 0.2019 %Ro
     Reflectance, ///< a given %Ro, as reached by heating at `heating_rate` from `surface_temperature`
     Burial       ///< heated at a constant rate from `surface_temperature` to the node's
-                 ///< temperature at the start of the run over `age`
+                 ///< temperature at the start of the run over `age` (a node touching a body
+                 ///< present at t = 0 starts partly at the body's temperature: emplace such
+                 ///< bodies just after t = 0 if that matters)
   };
   Kind kind = Kind::Unreacted;
   double reflectance = 0.5;            ///< Reflectance: initial vitrinite reflectance [%Ro]
@@ -80,8 +82,10 @@ class ThermalHistory final : public StepRecorder
 public:
   /**
    * Validates the settings against the model: throws std::invalid_argument naming the value
-   * for a threshold that is not finite or outside the model's temperature range, an organic
+   * for a threshold that is not finite, outside the model's temperature range or repeated, an
+   * organic
    * region id that no cell carries, invalid initial maturity, or invalid summary settings.
+   * start() throws if the model is not the one (by node count) the history was set up for.
    * A node belonging to several organic regions takes the maturity of the region of its
    * lowest-numbered organic cell.
    */
