@@ -64,7 +64,9 @@ double one_minus_x_ex_e1(double x)
 void mean_factors(double T0, double T1, std::array<double, kEasyRoReactions>& out)
 {
   const double a0 = activation_temperature(0);
-  const double da = activation_temperature(1) - a0;
+  // Δa from the exact 2 kcal/mol spacing, not as a difference of two rounded a_i, whose
+  // error the recurrence would multiply by up to 19.
+  const double da = (K::activation_energy(1) - K::activation_energy(0)) / K::gas_constant;
   if (T0 == T1)
   {
     double e = std::exp(-a0 / T0);

@@ -124,7 +124,8 @@ TEST(EasyRo, IndependentOfStepCount)
 // Mean Arrhenius factor on a linear ramp against composite Simpson quadrature in 1/T-space
 // (independent of both branches of the implementation), across the switch between the
 // Gauss–Legendre and the closed-form branches (exponent change Δx = 1). Tolerance 1e-11
-// relative (Simpson with 20000 panels on these smooth integrands: ~1e-14).
+// relative (Simpson with 20000 panels on these smooth integrands: ~1e-14, plus the round-off
+// of its sum).
 TEST(EasyRo, MeanArrheniusFactorAgainstQuadrature)
 {
   auto simpson = [](double a, double T0, double T1) {
@@ -140,7 +141,8 @@ TEST(EasyRo, MeanArrheniusFactorAgainstQuadrature)
   };
   for (double a : { 17109.5, 25000.0, 36231.8 })
     for (double T0 : { 293.15, 573.15, 1423.15 })
-      for (double dx : { 1e-9, 0.01, 0.999, 1.001, 3.0, 30.0 })
+      for (double dx : { 1e-9, 4e-8, 6e-8, 7e-4, 9e-4, 0.02, 0.03, 0.13, 0.15, 0.999, 1.001,
+             3.0, 30.0 })
       {
         // T1 such that a/T0 − a/T1 = ±dx (heating and cooling)
         const double T1 = 1.0 / (1.0 / T0 - dx / a);
@@ -152,6 +154,26 @@ TEST(EasyRo, MeanArrheniusFactorAgainstQuadrature)
         EXPECT_NEAR(mean_arrhenius_factor(a, T1, T0) / exact, 1.0, 1e-11)
           << "cooling, a " << a << " T0 " << T0 << " dx " << dx;
       }
+}
+
+// The batched step (all 20 reactions at once, shared exponentials) agrees with the per-reaction
+// mean factor to round-off (1e-13 relative) over the whole range of exponent changes.
+TEST(EasyRo, BatchedStepMatchesPerReactionFactor)
+{
+  const double dt = 1e9;
+  for (double T0 : { 20.0, 300.0, 1100.0 })
+    for (double dT : { 0.0, 1e-7, 1e-5, 1e-3, 0.1, 1.0, 10.0, 100.0, -50.0 })
+    {
+      EasyRoState state{};
+      easy_ro_advance(state, T0, T0 + dT, dt);
+      for (int i = 0; i < kEasyRoReactions; ++i)
+      {
+        const double a = EasyRoKinetics::activation_energy(i) / EasyRoKinetics::gas_constant;
+        const double expected = EasyRoKinetics::frequency_factor * dt *
+          mean_arrhenius_factor(a, T0 + 273.15, T0 + dT + 273.15);
+        EXPECT_NEAR(state[i] / expected, 1.0, 1e-13) << "T0 " << T0 << " dT " << dT << " i " << i;
+      }
+    }
 }
 
 // Initial maturity: a burial ramp is one exact step; a given %Ro is inverted to the state on
