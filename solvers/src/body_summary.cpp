@@ -37,10 +37,100 @@ double at(std::span<const double> f, std::size_t i)
   return f.empty() ? kNaN : f[i];
 }
 
-double distance(const Point& a, const Point& b)
+double euclidean(const Point& a, const Point& b)
 {
   return std::hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
 }
+
+// Distance from a query point to the nearest of a fixed set of points, by a uniform bucket
+// grid (about one point per bucket for points filling a volume; fewer for a surface) searched
+// in growing cubic rings around the query's bucket until no closer point can remain. Replaces
+// a brute-force scan over all boundary nodes for every aureole node.
+class NearestPoint
+{
+public:
+  explicit NearestPoint(std::vector<Point> points)
+    : points_(std::move(points))
+  {
+    lo_ = hi_ = points_.front();
+    for (const Point& p : points_)
+      for (int d = 0; d < 3; ++d)
+      {
+        lo_[d] = std::min(lo_[d], p[d]);
+        hi_[d] = std::max(hi_[d], p[d]);
+      }
+    const double extent = std::max({ hi_[0] - lo_[0], hi_[1] - lo_[1], hi_[2] - lo_[2] });
+    const double per_axis = std::max(1.0, std::cbrt(double(points_.size())));
+    size_ = extent > 0.0 ? extent / per_axis : 1.0;
+    for (int d = 0; d < 3; ++d)
+      dims_[d] = static_cast<std::int64_t>((hi_[d] - lo_[d]) / size_) + 1;
+    // Counting sort of the points into buckets (CSR).
+    offsets_.assign(dims_[0] * dims_[1] * dims_[2] + 1, 0);
+    std::vector<std::int64_t> bucket(points_.size());
+    for (std::size_t i = 0; i < points_.size(); ++i)
+    {
+      const auto c = cell_of(points_[i]);
+      bucket[i] = (c[2] * dims_[1] + c[1]) * dims_[0] + c[0];
+      ++offsets_[bucket[i] + 1];
+    }
+    for (std::size_t b = 1; b < offsets_.size(); ++b)
+      offsets_[b] += offsets_[b - 1];
+    order_.resize(points_.size());
+    std::vector<std::int64_t> fill(offsets_.begin(), offsets_.end() - 1);
+    for (std::size_t i = 0; i < points_.size(); ++i)
+      order_[fill[bucket[i]]++] = i;
+  }
+
+  double distance(const Point& q) const
+  {
+    std::array<std::int64_t, 3> c;
+    std::int64_t r_max = 0;
+    for (int d = 0; d < 3; ++d)
+    {
+      c[d] = static_cast<std::int64_t>(std::floor((q[d] - lo_[d]) / size_));
+      r_max = std::max({ r_max, std::abs(c[d]), std::abs(c[d] - (dims_[d] - 1)) });
+    }
+    double best = kInf;
+    for (std::int64_t r = 0; r <= r_max; ++r)
+    {
+      // every bucket at Chebyshev distance r from the query's (possibly outside the grid)
+      for (std::int64_t k = std::max<std::int64_t>(0, c[2] - r);
+           k <= std::min(dims_[2] - 1, c[2] + r); ++k)
+        for (std::int64_t j = std::max<std::int64_t>(0, c[1] - r);
+             j <= std::min(dims_[1] - 1, c[1] + r); ++j)
+          for (std::int64_t i = std::max<std::int64_t>(0, c[0] - r);
+               i <= std::min(dims_[0] - 1, c[0] + r); ++i)
+          {
+            if (std::max({ std::abs(i - c[0]), std::abs(j - c[1]), std::abs(k - c[2]) }) != r)
+              continue;
+            const std::int64_t b = (k * dims_[1] + j) * dims_[0] + i;
+            for (std::int64_t n = offsets_[b]; n < offsets_[b + 1]; ++n)
+              best = std::min(best, euclidean(q, points_[order_[n]]));
+          }
+      // Buckets beyond ring r lie at least r bucket sizes from the query.
+      if (best <= r * size_)
+        break;
+    }
+    return best;
+  }
+
+private:
+  std::array<std::int64_t, 3> cell_of(const Point& p) const
+  {
+    std::array<std::int64_t, 3> c;
+    for (int d = 0; d < 3; ++d)
+      c[d] = std::clamp<std::int64_t>(
+        static_cast<std::int64_t>((p[d] - lo_[d]) / size_), 0, dims_[d] - 1);
+    return c;
+  }
+
+  std::vector<Point> points_;
+  Point lo_{}, hi_{};
+  double size_ = 1.0;
+  std::array<std::int64_t, 3> dims_{};
+  std::vector<std::int64_t> offsets_;
+  std::vector<std::size_t> order_;
+};
 
 // Largest distance from the body's boundary nodes to a host node reached from them through
 // host nodes whose value exceeds `limit` (breadth-first over cell neighbours). 0 if none.
@@ -51,6 +141,10 @@ double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_
   if (value.empty() || boundary.empty()) // not recorded, or a body filling the whole mesh
     return kNaN;
   const Mesh& mesh = model.mesh();
+  std::vector<Point> boundary_points;
+  for (std::size_t b : boundary)
+    boundary_points.push_back(mesh.points[b]);
+  const NearestPoint nearest(std::move(boundary_points));
   std::vector<char> seen(model.n_nodes(), 0);
   std::vector<std::size_t> queue(boundary.begin(), boundary.end());
   for (std::size_t i : boundary)
@@ -60,12 +154,7 @@ double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_
   {
     const std::size_t i = queue[head];
     if (!in_body[i]) // a reached host node: measure it
-    {
-      double nearest = kInf;
-      for (std::size_t b : boundary)
-        nearest = std::min(nearest, distance(mesh.points[i], mesh.points[b]));
-      thickness = std::max(thickness, nearest);
-    }
+      thickness = std::max(thickness, nearest.distance(mesh.points[i]));
     for (const CellSlot& slot : model.cells_of(i))
       for (std::int64_t j : mesh.nodes(slot.cell))
         if (!seen[j] && !in_any_body[j] && value[j] > limit)

@@ -478,3 +478,61 @@ TEST(ThermalHistory, ExactForLinearSegmentsWhateverTheStep)
   }
   EXPECT_NEAR(fine->reflectance()[0] / coarse->reflectance()[0], 1.0, 1e-12);
 }
+
+// Aureole geometry on a 3-D mesh: a synthetic peak-temperature field decreasing with distance
+// from an L-shaped body, so the host nodes above the limit form one connected shell; the
+// reported thickness must equal the largest distance from those nodes to the nearest boundary
+// node, computed here by brute force (exact arithmetic on node coordinates: 1e-12 m).
+TEST(BodySummary, AureoleThicknessOnTetrahedra)
+{
+  Mesh mesh = make_box_tet({ 0, 0, 0 }, { 12, 10, 8 }, { 12, 10, 8 });
+  auto in_body = [](const Point& q) {
+    return (q[0] > 3 && q[0] < 7 && q[1] > 3 && q[1] < 5 && q[2] > 3 && q[2] < 5) ||
+      (q[0] > 5 && q[0] < 7 && q[1] > 3 && q[1] < 8 && q[2] > 3 && q[2] < 5);
+  };
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+  {
+    Point centre{};
+    for (auto n : mesh.nodes(c))
+      for (int d = 0; d < 3; ++d)
+        centre[d] += mesh.points[n][d] / mesh.nodes(c).size();
+    if (in_body(centre))
+      mesh.cell_region[c] = 1;
+  }
+  ThermalModel model(mesh, { simple_rock("host", 2.5, 2500, 1000) },
+    std::vector<int>(mesh.n_cells(), 0));
+  // boundary nodes: in a body cell and in a host cell
+  std::vector<char> body_node(mesh.n_points(), 0), host_node(mesh.n_points(), 0);
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+    for (auto n : mesh.nodes(c))
+      (mesh.cell_region[c] == 1 ? body_node : host_node)[n] = 1;
+  std::vector<Point> boundary;
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+    if (body_node[i] && host_node[i])
+      boundary.push_back(mesh.points[i]);
+  auto nearest = [&](const Point& q) {
+    double d = INFINITY;
+    for (const Point& b : boundary)
+      d = std::min(d, std::hypot(q[0] - b[0], q[1] - b[1], q[2] - b[2]));
+    return d;
+  };
+  std::vector<double> peak(mesh.n_points());
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+    peak[i] = body_node[i] ? 1000.0 : 900.0 - 100.0 * nearest(mesh.points[i]);
+  for (double limit : { 750.0, 600.0, 450.0 }) // distances below 1.5, 3, 4.5 m
+  {
+    double expected = 0;
+    for (std::size_t i = 0; i < mesh.n_points(); ++i)
+      if (!body_node[i] && peak[i] > limit)
+        expected = std::max(expected, nearest(mesh.points[i]));
+    BodySummarySettings s;
+    s.bodies = { 1 };
+    s.aureole_temperature = limit;
+    const BodySummary b =
+      summarize_bodies(model, 0, std::vector<double>(mesh.n_points(), 10.0), { peak, {}, {} }, s);
+    EXPECT_NEAR(b.regions.at(1).aureole_thickness_temperature, expected, 1e-12)
+      << "limit " << limit;
+    EXPECT_GT(expected, 0.9);
+    EXPECT_EQ(b.regions.at(1).contact_temperature, 1000.0);
+  }
+}
