@@ -134,8 +134,8 @@ private:
 
 // Largest distance from the body's boundary nodes to a host node reached from them through
 // host nodes whose value exceeds `limit` (breadth-first over cell neighbours). 0 if none.
-double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_body,
-  const std::vector<char>& in_any_body, const std::vector<std::size_t>& boundary,
+double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_any_body,
+  const std::vector<std::size_t>& boundary,
   std::span<const double> value, double limit)
 {
   if (value.empty() || boundary.empty()) // not recorded, or a body filling the whole mesh
@@ -153,7 +153,7 @@ double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_
   for (std::size_t head = 0; head < queue.size(); ++head)
   {
     const std::size_t i = queue[head];
-    if (!in_body[i]) // a reached host node: measure it
+    if (!in_any_body[i]) // a reached host node, not a boundary node we started from
       thickness = std::max(thickness, nearest.distance(mesh.points[i]));
     for (const CellSlot& slot : model.cells_of(i))
       for (std::int64_t j : mesh.nodes(slot.cell))
@@ -233,13 +233,32 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
   RegionSummary& total = out.model;
   total.region = -1;
   double total_melt = 0.0;
-  LatestSolidification all_nodes;
-  for (std::size_t i = 0; i < model.n_nodes(); ++i)
-    if (!model.cells_of(i).empty())
-      all_nodes.add(at(history.solidification_time, i));
-  total.solidification_time = all_nodes.value();
   total.contact_temperature = total.aureole_thickness_temperature =
     total.aureole_thickness_reflectance = kNaN;
+
+  // One pass over the nodes: a node belongs to every region among its cells, and lies on the
+  // boundary of each of them if its cells carry more than one region.
+  LatestSolidification all_nodes; // nodes with a control volume
+  std::map<int, LatestSolidification> solidification;
+  std::map<int, std::vector<std::size_t>> boundary_of;
+  std::vector<int> here;
+  for (std::size_t i = 0; i < model.n_nodes(); ++i)
+  {
+    here.clear();
+    for (const CellSlot& slot : model.cells_of(i))
+      if (std::find(here.begin(), here.end(), mesh.cell_region[slot.cell]) == here.end())
+        here.push_back(mesh.cell_region[slot.cell]);
+    if (!here.empty())
+      all_nodes.add(at(history.solidification_time, i));
+    for (int region : here)
+    {
+      solidification[region].add(at(history.solidification_time, i));
+      if (here.size() > 1)
+        boundary_of[region].push_back(i);
+    }
+  }
+
+  total.solidification_time = all_nodes.value();
 
   for (auto& [region, row] : by_region)
   {
@@ -249,23 +268,8 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
     total_melt += melt_volume[region];
     total.heat_in_place += row.heat_in_place;
 
-    // Nodes of the region, and its boundary nodes (also in a cell of another region).
-    std::vector<char> in_region(model.n_nodes(), 0);
-    std::vector<std::size_t> boundary;
-    LatestSolidification nodes;
-    for (std::size_t i = 0; i < model.n_nodes(); ++i)
-    {
-      bool inside = false, outside = false;
-      for (const CellSlot& slot : model.cells_of(i))
-        (mesh.cell_region[slot.cell] == region ? inside : outside) = true;
-      if (!inside)
-        continue;
-      in_region[i] = 1;
-      nodes.add(at(history.solidification_time, i));
-      if (outside)
-        boundary.push_back(i);
-    }
-    row.solidification_time = nodes.value();
+    row.solidification_time = solidification[region].value();
+    const std::vector<std::size_t>& boundary = boundary_of[region];
     row.contact_temperature = row.aureole_thickness_temperature =
       row.aureole_thickness_reflectance = kNaN;
     if (std::find(settings.bodies.begin(), settings.bodies.end(), region) ==
@@ -275,10 +279,10 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
     for (std::size_t i : boundary)
       contact = std::max(contact, at(history.peak_temperature, i));
     row.contact_temperature = contact;
-    row.aureole_thickness_temperature = aureole_thickness(model, in_region, in_any_body,
-      boundary, history.peak_temperature, settings.aureole_temperature);
+    row.aureole_thickness_temperature = aureole_thickness(
+      model, in_any_body, boundary, history.peak_temperature, settings.aureole_temperature);
     row.aureole_thickness_reflectance = aureole_thickness(
-      model, in_region, in_any_body, boundary, history.reflectance, settings.aureole_reflectance);
+      model, in_any_body, boundary, history.reflectance, settings.aureole_reflectance);
     // fmax ignores NaN: the model's value is the largest over the bodies that have one.
     total.contact_temperature = std::fmax(total.contact_temperature, row.contact_temperature);
     total.aureole_thickness_temperature =
