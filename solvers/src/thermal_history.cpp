@@ -171,6 +171,9 @@ void ThermalHistory::update(double t, const std::vector<double>& T, const Therma
 {
   if (previous_T_.size() != model.n_nodes())
     throw std::logic_error("thermal history: update() before start()");
+  if (!(t >= time_))
+    throw std::logic_error("thermal history: time runs backwards (" + std::to_string(t) +
+      " s after " + std::to_string(time_) + " s)");
   const double t0 = time_, dt = t - time_;
   const std::size_t n_thresholds = settings_.thresholds.size();
   arena.execute([&] {
