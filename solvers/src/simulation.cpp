@@ -229,10 +229,10 @@ SimulationResult simulate(ThermalModel& model, const std::vector<BoundaryConditi
       }
     }
     Snapshot snap{ t, T, std::vector<double>(T.size()), result.ledger.boundary, {} };
-    for (std::size_t i = 0; i < T.size(); ++i)
-      snap.melt_fraction[i] = model.melt_fraction(i, T[i]);
     if (recorder)
       recorder->write(snap, model);
+    for (std::size_t i = 0; i < T.size(); ++i)
+      snap.melt_fraction[i] = model.melt_fraction(i, T[i]);
     result.snapshots.push_back(std::move(snap));
   }
   result.ledger.stored_change = total_energy(E) - result.ledger.initial;
