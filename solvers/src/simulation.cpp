@@ -153,7 +153,8 @@ std::vector<double> initial_temperatures(const Mesh& mesh, const InitialState& s
 
 SimulationResult simulate(ThermalModel& model, const std::vector<BoundaryCondition>& conditions,
   const InitialState& initial, const std::vector<Emplacement>& emplacements,
-  const SimulationSettings& settings, Integrator& integrator, const StepObserver& observer)
+  const SimulationSettings& settings, Integrator& integrator, const StepObserver& observer,
+  StepRecorder* recorder)
 {
   check_settings(settings);
   for (const Emplacement& ev : emplacements)
@@ -191,12 +192,15 @@ SimulationResult simulate(ThermalModel& model, const std::vector<BoundaryConditi
     }
     if (changed)
       op.refresh();
+    return changed;
   };
   apply_due_events(0.0, nullptr); // bodies present from the start are part of the initial state
 
   SimulationResult result;
   result.ledger.initial = total_energy(E);
   guard(T, settings, 0, 0.0);
+  if (recorder)
+    recorder->start(0.0, T, model, arena);
   const double end = settings.output_times.back();
   double t = 0.0;
   for (double t_out : settings.output_times)
@@ -213,7 +217,10 @@ SimulationResult simulate(ThermalModel& model, const std::vector<BoundaryConditi
       result.ledger.boundary += step.energy.boundary;
       result.ledger.source += step.energy.source;
       guard(T, settings, result.steps, t);
-      apply_due_events(t, &result.ledger);
+      if (recorder)
+        recorder->update(t, T, model, arena);
+      if (apply_due_events(t, &result.ledger) && recorder)
+        recorder->update(t, T, model, arena); // the emplacement's jump, a step of zero length
       if (observer && !observer({ result.steps, t, step.dt, end }))
       {
         result.cancelled = true;
@@ -221,7 +228,9 @@ SimulationResult simulate(ThermalModel& model, const std::vector<BoundaryConditi
         return result;
       }
     }
-    Snapshot snap{ t, T, std::vector<double>(T.size()), result.ledger.boundary };
+    Snapshot snap{ t, T, std::vector<double>(T.size()), result.ledger.boundary, {} };
+    if (recorder)
+      recorder->write(snap, model);
     for (std::size_t i = 0; i < T.size(); ++i)
       snap.melt_fraction[i] = model.melt_fraction(i, T[i]);
     if (settings.snapshot_sink)

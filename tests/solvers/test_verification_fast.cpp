@@ -65,26 +65,14 @@ TEST(Verification, InstantaneousSheet)
 // Tolerance: front position 2 % (verification.md §0, §3(i)).
 TEST(Verification, StefanLavaLakeCrust)
 {
-  const double L = 4e5, c = 1000, k = 2.0, kappa = 7e-7, dT = 1000;
-  const double lambda = stefan_lambda(L, c, dT);
+  const LavaLake p;
+  const double lambda = stefan_lambda(p.L, p.c, p.Tm);
   EXPECT_NEAR(lambda, 0.862411, 1e-6); // the catalogue's value, verification.md §3(i)
-  Rock magma = simple_rock("basalt", k, k / (kappa * c), c);
-  magma.latent_heat = L;
-  magma.solidus = dT - 5;
-  magma.liquidus = dT + 5;
-  const double depth = 16, t = kSecondsPerYear;
-  const int cells = 160;
-  Mesh mesh = column(depth, cells, depth / cells, false);
-  ThermalModel model(mesh, { magma }, std::vector<int>(mesh.n_cells(), 0));
-  BoundaryCondition top;
-  top.kind = BoundaryCondition::Kind::FixedTemperature;
-  top.side = Side::Top;
-  SimulationSettings s;
-  s.output_times = { t };
-  ForwardEuler fe;
-  const auto result =
-    simulate(model, { top }, { InitialState::Kind::Uniform, dT + 5 }, {}, s, fe);
-  const auto& T = result.snapshots.back().temperature;
+  const double t = kSecondsPerYear, depth = p.depth, dT = p.Tm, kappa = p.kappa;
+  const int cells = p.cells;
+  const ColumnRun run = run_lava_lake(p, { t });
+  const Mesh& mesh = run.mesh;
+  const auto& T = run.result.snapshots.back().temperature;
   double front = NAN;
   for (int i = 0; i < cells; ++i)
   {

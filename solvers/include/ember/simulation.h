@@ -69,12 +69,20 @@ struct EnergyLedger
   double relative_imbalance() const;
 };
 
+/// A named per-node array (SI units, temperatures in °C), e.g. "PeakTemperature".
+struct PointField
+{
+  std::string name;
+  std::vector<double> values;
+};
+
 struct Snapshot
 {
   double time = 0.0;                ///< [s]
   std::vector<double> temperature;  ///< [°C] per node
   std::vector<double> melt_fraction;
   double boundary_heat = 0.0;       ///< cumulative heat in through boundaries since t = 0 [J]
+  std::vector<PointField> point_fields; ///< products of a StepRecorder at this time, if any
 };
 
 struct StepInfo
@@ -92,6 +100,26 @@ struct SimulationResult
   std::size_t steps = 0;
   std::size_t operator_applications = 0;
   bool cancelled = false;
+};
+
+/**
+ * Optional hook for products computed inside the solve (thermal history, see
+ * thermal_history.h). The driver calls start() once with the initial state (bodies present at
+ * t = 0 included), update() after every step with the step's end time and temperatures (and
+ * once more, with the same time, after emplacements applied at that time: a step of zero
+ * length), and write() at every output time. Between two calls the temperature of each node
+ * is taken linear in time. Called on the caller's thread; may use `arena` for parallel work.
+ */
+class StepRecorder
+{
+public:
+  virtual ~StepRecorder() = default;
+  virtual void start(double t, const std::vector<double>& T, const ThermalModel& model,
+    tbb::task_arena& arena) = 0;
+  virtual void update(double t, const std::vector<double>& T, const ThermalModel& model,
+    tbb::task_arena& arena) = 0;
+  /// Add this recorder's arrays to the snapshot taken at snapshot.time.
+  virtual void write(Snapshot& snapshot, const ThermalModel& model) = 0;
 };
 
 /// Thrown when the state leaves the physical range or becomes NaN; names step, time and node.
@@ -136,11 +164,13 @@ void update_temperatures(const ThermalModel& model, const HeatOperator& op,
 std::vector<double> initial_temperatures(const Mesh& mesh, const InitialState& state);
 
 /**
- * Run the model. `model` is modified by emplacement events (cells change rock).
+ * Run the model. `model` is modified by emplacement events (cells change rock). A `recorder`,
+ * if given, is started, updated after every step and written into every snapshot.
  * Throws std::invalid_argument for bad settings (output list out of order, ...), naming them.
  */
 SimulationResult simulate(ThermalModel& model, const std::vector<BoundaryCondition>& conditions,
   const InitialState& initial, const std::vector<Emplacement>& emplacements,
-  const SimulationSettings& settings, Integrator& integrator, const StepObserver& observer = {});
+  const SimulationSettings& settings, Integrator& integrator, const StepObserver& observer = {},
+  StepRecorder* recorder = nullptr);
 
 } // namespace ember

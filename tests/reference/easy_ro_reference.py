@@ -1,0 +1,188 @@
+#!/usr/bin/python3
+"""EASY%Ro reference values for tests/solvers/test_easy_ro.cpp.
+
+Model: Sweeney, J.J. & Burnham, A.K. (1990), "Evaluation of a simple model of vitrinite
+reflectance based on chemical kinetics", AAPG Bulletin 74(10), 1559-1570: 20 parallel
+first-order reactions, A = 1e13 1/s, E = 34..72 kcal/mol in 2 kcal/mol steps, weights below
+(sum 0.85), %Ro = exp(-1.6 + 3.7 F). Weights as in shared/reference/verification.md §8.
+
+Independent of the C++ code: each history (piecewise linear T(t)) is integrated as the ODE
+dI_i/dt = A exp(-E_i/(R T(t))) with scipy's solve_ivp (DOP853, rtol 1e-12), and every case
+is cross-checked against the closed form for a linear ramp, I = (A dt/dT) [G(T1) - G(T0)],
+G(T) = T e^(-x) - x T E1(x), x = E/(R T), with scipy.special.exp1 (isothermal: A e^(-x) dt).
+The script stops if the two disagree by more than 1e-9 in F.
+
+Second file: EASY%Ro beside an instantaneous sheet (verification.md §8(d)): the host at
+distance d from the contact of a sill of half-thickness b follows the closed form of Carslaw &
+Jaeger (1959) ch. 2, T = Th + (T0 - Th) theta(b + d, t), from the unreacted state; the ODE
+along that T(t) is integrated with solve_ivp and cross-checked with scipy quad per reaction.
+
+Regenerate both files (Debian's python3, which has numpy/scipy):
+    /usr/bin/python3 tests/reference/easy_ro_reference.py
+It writes tests/reference/easy_ro_expected.txt and tests/reference/easy_ro_sheet_expected.txt.
+"""
+import os
+import math
+import sys
+
+import numpy as np
+from scipy.integrate import quad, solve_ivp
+from scipy.special import erf
+from scipy.special import exp1
+
+A = 1e13
+R = 8.314462618 / 4184.0  # kcal/(mol K)
+E = np.array([34.0 + 2.0 * i for i in range(20)])
+W = np.array([0.03, 0.03, 0.04, 0.04, 0.05, 0.05, 0.06, 0.04, 0.04, 0.07,
+              0.06, 0.06, 0.06, 0.05, 0.05, 0.04, 0.03, 0.02, 0.02, 0.01])
+YEAR = 365.25 * 86400.0
+MYR = 1e6 * YEAR
+KELVIN = 273.15
+
+
+def ro_of(I):
+    F = float(np.sum(W * -np.expm1(-I)))
+    return F, math.exp(-1.6 + 3.7 * F)
+
+
+def integrate_ode(points):
+    """points: [(t [yr], T [°C]), ...] piecewise linear; returns I per reaction."""
+    I = np.zeros(20)
+    for (t0, T0), (t1, T1) in zip(points[:-1], points[1:]):
+        dt = (t1 - t0) * YEAR
+        if dt == 0.0:
+            continue
+        a = E / R
+        # scaled time s in [0, 1]: dI/ds = A dt exp(-a / T(s))
+        def rhs(s, y):
+            T = T0 + KELVIN + s * (T1 - T0)
+            return A * dt * np.exp(-a / T)
+        sol = solve_ivp(rhs, (0.0, 1.0), I, method="DOP853", rtol=1e-12, atol=1e-30)
+        assert sol.success, sol.message
+        I = sol.y[:, -1]
+    return I
+
+
+def integrate_exact(points):
+    I = np.zeros(20)
+    a = E / R
+    for (t0, T0), (t1, T1) in zip(points[:-1], points[1:]):
+        dt = (t1 - t0) * YEAR
+        if dt == 0.0:
+            continue
+        Ta, Tb = T0 + KELVIN, T1 + KELVIN
+        if Ta == Tb:
+            I = I + A * dt * np.exp(-a / Ta)
+            continue
+        def G(T):
+            x = a / T
+            return T * np.exp(-x) - a * exp1(x)
+        I = I + A * dt * (G(Tb) - G(Ta)) / (Tb - Ta)
+    return I
+
+
+def ramp(rate_per_myr, T_start, T_end):
+    return [(0.0, T_start), ((T_end - T_start) / rate_per_myr * 1e6, T_end)]
+
+
+cases = []
+# (a) constant heating from 20 °C (burial rates, verification.md §8(a))
+for rate in (1.0, 10.0, 100.0):
+    for T_end in (100.0, 150.0, 200.0):
+        cases.append((f"heating_{rate:g}K_per_Myr_to_{T_end:g}C", ramp(rate, 20.0, T_end)))
+# fast contact-style heating (K/yr, not K/Myr), with and without a linear cool-down after
+cases.append(("contact_ramp_50_to_600C_in_20yr", [(0.0, 50.0), (20.0, 600.0)]))
+cases.append(("contact_ramp_50_to_400C_in_100yr_then_cool_to_100C_in_2kyr",
+              [(0.0, 50.0), (100.0, 400.0), (2100.0, 100.0)]))
+cases.append(("contact_ramp_80_to_250C_in_1kyr", [(0.0, 80.0), (1000.0, 250.0)]))
+# (b) isothermal holds from the unreacted state (verification.md §8(b))
+for T in (300.0, 500.0):
+    for years in (1.0, 10.0, 100.0, 1000.0):
+        cases.append((f"hold_{T:g}C_{years:g}yr", [(0.0, T), (years, T)]))
+for T in (100.0, 150.0, 200.0, 250.0, 400.0):
+    for years in (1.0, 1e3, 1e6):
+        cases.append((f"hold_{T:g}C_{years:g}yr", [(0.0, T), (years, T)]))
+# (c) path additivity: burial, then an instantaneous step and a hold (verification.md §8(c))
+burial = ramp(10.0, 20.0, 150.0)
+t_b = burial[-1][0]
+cases.append(("burial_150C_then_250C_for_1yr", burial + [(t_b, 250.0), (t_b + 1.0, 250.0)]))
+cases.append(("burial_150C_then_200C_for_100yr", burial + [(t_b, 200.0), (t_b + 100.0, 200.0)]))
+# range of the model: unreacted (cold, short) and saturated
+cases.append(("unreacted_minus50C_1yr", [(0.0, -50.0), (1.0, -50.0)]))
+cases.append(("saturated_600C_10kyr", [(0.0, 600.0), (1e4, 600.0)]))
+
+HERE = os.path.dirname(os.path.abspath(__file__))
+
+
+def write_histories(out):
+    print("# EASY%Ro reference values (Sweeney & Burnham 1990), generated by", file=out)
+    print("# tests/reference/easy_ro_reference.py with scipy solve_ivp (DOP853, rtol 1e-12),", file=out)
+    print("# cross-checked against the exponential-integral closed form (max |dF| below).", file=out)
+    print("# Format: 'case NAME RO F N' then N lines 't[yr] T[°C]' of a piecewise-linear history;", file=out)
+    print("# a repeated time is an instantaneous temperature step. 1 yr = 365.25 d.", file=out)
+    worst = 0.0
+    for name, pts in cases:
+        I_ode = integrate_ode(pts)
+        I_cf = integrate_exact(pts)
+        F, ro = ro_of(I_ode)
+        F_cf, _ = ro_of(I_cf)
+        worst = max(worst, abs(F - F_cf))
+        if abs(F - F_cf) > 1e-9:
+            sys.exit(f"{name}: ODE F = {F!r} but closed form F = {F_cf!r}")
+        print(f"case {name} {ro:.15g} {F:.15g} {len(pts)}", file=out)
+        for t, T in pts:
+            print(f"{t:.17g} {T:.17g}", file=out)
+    print(f"# max |F(ODE) - F(closed form)| = {worst:.2e}", file=out)
+
+
+# Sheet of verification.md §8(d): 100 m sill (b = 50 m), T0 = 1150, Th = 50 °C, kappa = 1e-6.
+SHEET_B, SHEET_T0, SHEET_TH, SHEET_KAPPA, SHEET_END_YR = 50.0, 1150.0, 50.0, 1e-6, 2000.0
+SHEET_DISTANCES = (5.0, 10.0, 25.0, 50.0, 100.0, 150.0)
+
+
+def sheet_T(x, t):
+    s = 2.0 * math.sqrt(SHEET_KAPPA * t)
+    theta = 0.5 * (erf((SHEET_B - x) / s) + erf((SHEET_B + x) / s))
+    return SHEET_TH + (SHEET_T0 - SHEET_TH) * theta
+
+
+def sheet_reflectance(d):
+    x = SHEET_B + d
+    a = E / R
+    end = SHEET_END_YR * YEAR
+    t_peak = x * SHEET_B / math.log((x + SHEET_B) / (x - SHEET_B)) / SHEET_KAPPA
+    def rhs(t, y):
+        return A * np.exp(-a / (sheet_T(x, t) + KELVIN))
+    sol = solve_ivp(rhs, (1e-6 * end, end), np.zeros(20), method="DOP853", rtol=1e-11,
+                    atol=1e-30, first_step=1e-3 * t_peak)
+    assert sol.success, sol.message
+    I_ode = sol.y[:, -1]
+    I_quad = np.array([quad(lambda t: A * math.exp(-ai / (sheet_T(x, t) + KELVIN)),
+                            1e-6 * end, end, points=[t_peak], limit=500,
+                            epsabs=0.0, epsrel=1e-11)[0] for ai in a])
+    F, ro = ro_of(I_ode)
+    F_q, _ = ro_of(I_quad)
+    if abs(F - F_q) > 1e-8:
+        sys.exit(f"sheet d = {d}: ODE F = {F!r} but quad F = {F_q!r}")
+    return ro, F, max(sheet_T(x, t) for t in np.linspace(1e-3 * end, end, 20001)), abs(F - F_q)
+
+
+def write_sheet(out):
+    print("# EASY%Ro beside an instantaneous sheet (verification.md §8(d)), generated by", file=out)
+    print("# tests/reference/easy_ro_reference.py: closed-form T(t) of Carslaw & Jaeger (1959)", file=out)
+    print("# ch. 2, host unreacted at t = 0; solve_ivp (DOP853, rtol 1e-11) cross-checked with quad.", file=out)
+    print(f"# b {SHEET_B:g} m, T0 {SHEET_T0:g} °C, Th {SHEET_TH:g} °C, kappa {SHEET_KAPPA:g} m2/s, "
+          f"end {SHEET_END_YR:g} yr (the start before 1e-6 of it is cold: no reaction)", file=out)
+    print("# Format: 'distance_from_contact[m] RO F' (sampled peak T [°C] as a comment)", file=out)
+    worst = 0.0
+    for d in SHEET_DISTANCES:
+        ro, F, peak, diff = sheet_reflectance(d)
+        worst = max(worst, diff)
+        print(f"{d:g} {ro:.15g} {F:.15g}  # peak about {peak:.2f} °C", file=out)
+    print(f"# max |F(ODE) - F(quad)| = {worst:.2e}", file=out)
+
+
+with open(os.path.join(HERE, "easy_ro_expected.txt"), "w") as out:
+    write_histories(out)
+with open(os.path.join(HERE, "easy_ro_sheet_expected.txt"), "w") as out:
+    write_sheet(out)
