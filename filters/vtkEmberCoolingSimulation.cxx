@@ -5,7 +5,12 @@
 #include "EmberVtkConversion.h"
 
 #include "ember/inputs/region_map.h"
+#include "ember/integrators.h"
 #include "ember/simulation.h"
+#include "ember/thermal_history.h"
+
+#include <vtkTable.h>
+#include <map>
 
 #include <vtkDoubleArray.h>
 #include <vtkFieldData.h>
@@ -33,9 +38,47 @@ struct vtkEmberCoolingSimulation::Internals
   ember::EnergyLedger ledger;
   std::optional<std::vector<ember::BoundaryCondition>> conditions; ///< runner's explicit list
   std::optional<ember::InitialState> initial;                       ///< runner's override
+  std::vector<ember::BodySummary> summaries;
+  std::map<int, std::string> region_names;
+  vtkSmartPointer<vtkTable> table;
 };
 
-vtkEmberCoolingSimulation::vtkEmberCoolingSimulation() : Internal(new Internals) {}
+vtkEmberCoolingSimulation::vtkEmberCoolingSimulation() : Internal(new Internals)
+{
+  this->SetNumberOfOutputPorts(2);
+}
+
+int vtkEmberCoolingSimulation::FillOutputPortInformation(int port, vtkInformation* info)
+{
+  info->Set(vtkDataObject::DATA_TYPE_NAME(), port == 0 ? "vtkUnstructuredGrid" : "vtkTable");
+  return 1;
+}
+
+void vtkEmberCoolingSimulation::AddThreshold(double celsius)
+{
+  this->Thresholds.push_back(celsius);
+  this->Modified();
+}
+
+void vtkEmberCoolingSimulation::ClearThresholds()
+{
+  if (!this->Thresholds.empty())
+  {
+    this->Thresholds.clear();
+    this->Modified();
+  }
+}
+
+const std::vector<ember::BodySummary>& vtkEmberCoolingSimulation::GetBodySummaries() const
+{
+  return this->Internal->summaries;
+}
+
+std::string vtkEmberCoolingSimulation::GetRegionName(int region) const
+{
+  const auto it = this->Internal->region_names.find(region);
+  return it != this->Internal->region_names.end() ? it->second : "region " + std::to_string(region);
+}
 
 vtkEmberCoolingSimulation::~vtkEmberCoolingSimulation() = default;
 
@@ -203,24 +246,59 @@ void vtkEmberCoolingSimulation::Solve(vtkUnstructuredGrid* input)
     frame.arrays.push_back({ bridge::kTemperature, false, std::move(snap.temperature) });
     frame.arrays.push_back({ bridge::kMeltFraction, true, std::move(snap.melt_fraction) });
     frame.scalars.emplace_back("BoundaryHeat_J", snap.boundary_heat);
+    for (PointField& field : snap.point_fields)
+    {
+      // Times go out in years, the unit users read; the name says so.
+      const bool is_time = field.name.find("Time") != std::string::npos;
+      if (is_time)
+        for (double& v : field.values)
+          v /= kSecondsPerYear;
+      frame.arrays.push_back({ is_time ? field.name + "_yr" : field.name, false, std::move(field.values) });
+    }
     cache.add(frame);
   };
 
-  if (this->Integrator == RKL2)
-    throw std::invalid_argument("the RKL2 integrator is not available in this build yet; choose forward Euler");
-  ForwardEuler integrator;
+  ThermalHistorySettings history_settings;
+  history_settings.thresholds = this->Thresholds;
+  for (const auto& entry : map.regions)
+    if (entry.organic)
+    {
+      InitialMaturity maturity = *entry.organic;
+      maturity.surface_temperature = initial.surface_temperature;
+      history_settings.organic.push_back({ entry.id, maturity });
+    }
+  BodySummarySettings summary;
+  summary.reference_temperature = this->HeatReferenceTemperature;
+  summary.recovery_factor = this->RecoveryFactor;
+  summary.aureole_temperature = this->AureoleTemperature;
+  summary.aureole_reflectance = this->AureoleReflectance;
+  for (const auto& entry : map.regions)
+    if (entry.intrusion)
+      summary.bodies.push_back(entry.id);
+  history_settings.summary = summary;
+  ThermalHistory history(model, history_settings);
+
+  const auto integrator = make_integrator(
+    this->Integrator == RKL2 ? ember::IntegratorKind::RKL2 : ember::IntegratorKind::ForwardEuler);
   const double end = settings.output_times.back();
   const SimulationResult result = simulate(model, conditions, initial, setup.emplacements,
-    settings, integrator, [this, end](const StepInfo& step) {
+    settings, *integrator,
+    [this, end](const StepInfo& step) {
       this->UpdateProgress(step.time / end);
       return !this->CheckAbort();
-    });
+    },
+    &history);
   if (result.cancelled)
   {
     cache.clear();
     throw Aborted("the simulation was aborted at the user's request");
   }
   this->Internal->ledger = result.ledger;
+  this->Internal->summaries = history.summaries();
+  this->Internal->region_names.clear();
+  for (const auto& entry : map.regions)
+    this->Internal->region_names[entry.id] = entry.name;
+  this->Internal->table = this->MakeSummaryTable();
   this->StepsTaken = static_cast<vtkIdType>(result.steps);
   this->OperatorApplications = static_cast<vtkIdType>(result.operator_applications);
   ++this->SolveCount;
@@ -283,6 +361,9 @@ int vtkEmberCoolingSimulation::RequestData(
     ledger->InsertNextTuple(values);
     output->GetFieldData()->AddArray(ledger);
     output->GetInformation()->Set(vtkDataObject::DATA_TIME_STEP(), years);
+    vtkTable* table = vtkTable::GetData(outputVector, 1);
+    if (table && in.table)
+      table->ShallowCopy(in.table);
     return 1;
   }
   catch (const ember::SimulationError& e)
@@ -322,6 +403,53 @@ int vtkEmberCoolingSimulation::Fail(vtkDataObject* output, Failure kind, const c
   this->LastErrorMessage = message;
   vtkErrorMacro(<< message);
   return 0;
+}
+
+vtkSmartPointer<vtkTable> vtkEmberCoolingSimulation::MakeSummaryTable() const
+{
+  // Wide: one row per output time, columns "<region>: <quantity>", so the viewer's line chart
+  // plots any quantity of any body over time directly.
+  auto table = vtkSmartPointer<vtkTable>::New();
+  const auto& rows = this->Internal->summaries;
+  auto column = [&](const std::string& name, auto value_of) {
+    vtkNew<vtkDoubleArray> array;
+    array->SetName(name.c_str());
+    for (const auto& row : rows)
+      array->InsertNextValue(value_of(row));
+    table->AddColumn(array);
+  };
+  column("Time_yr", [](const ember::BodySummary& r) { return r.time / ember::kSecondsPerYear; });
+  if (rows.empty())
+    return table;
+  std::vector<int> regions;
+  for (const auto& r : rows.front().regions)
+    regions.push_back(r.region);
+  regions.push_back(-1);
+  for (int id : regions)
+  {
+    const std::string prefix = (id < 0 ? std::string("Whole model") : this->GetRegionName(id)) + ": ";
+    auto pick = [id](const ember::BodySummary& s) -> const ember::RegionSummary& {
+      if (id < 0)
+        return s.model;
+      for (const auto& r : s.regions)
+        if (r.region == id)
+          return r;
+      return s.model; // unreachable: every output lists the same regions
+    };
+    using S = ember::BodySummary;
+    column(prefix + "Volume_m3", [&](const S& s) { return pick(s).volume; });
+    column(prefix + "MeltVolumeFraction", [&](const S& s) { return pick(s).melt_volume_fraction; });
+    column(prefix + "HeatInPlace_J", [&](const S& s) { return pick(s).heat_in_place; });
+    column(prefix + "RecoverableHeat_J", [&](const S& s) { return pick(s).recoverable_heat; });
+    column(prefix + "SolidificationTime_yr",
+      [&](const S& s) { return pick(s).solidification_time / ember::kSecondsPerYear; });
+    column(prefix + "ContactTemperature_C", [&](const S& s) { return pick(s).contact_temperature; });
+    column(prefix + "AureoleThicknessByTemperature_m",
+      [&](const S& s) { return pick(s).aureole_thickness_temperature; });
+    column(prefix + "AureoleThicknessByEasyRo_m",
+      [&](const S& s) { return pick(s).aureole_thickness_reflectance; });
+  }
+  return table;
 }
 
 void vtkEmberCoolingSimulation::PrintSelf(ostream& os, vtkIndent indent)

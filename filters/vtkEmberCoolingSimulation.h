@@ -8,8 +8,14 @@
  * folder removed with the filter), so scrubbing the timeline never solves again. Output times
  * are published in years (TIME_STEPS/TIME_RANGE).
  *
- * Output: the input mesh with point arrays Temperature [°C] and MeltFraction [-] at the
- * requested time, field data TimeYears and the run's energy ledger (EnergyLedger_J).
+ * Output 0: the input mesh with point arrays Temperature [°C] and MeltFraction [-] at the
+ * requested time, the thermal-history products recorded at every step up to it
+ * (PeakTemperature [°C], PeakTemperatureTime_yr, SolidificationTime_yr (NaN: never molten,
+ * inf: still molten), TimeAbove<θ>C_yr per threshold, EasyRo [%Ro] in organic-bearing
+ * regions, NaN elsewhere), field data TimeYears and the run's energy ledger (EnergyLedger_J).
+ * Output 1: a vtkTable with one row per output time: for each region and the whole model,
+ * volume, melt volume fraction, heat in place and recoverable heat (volumetric method,
+ * Muffler & Cataldi 1978), solidification time, contact temperature and aureole thicknesses.
  *
  * Units of the parameters: °C, K/km, mW/m² (heat flow into the model), W/(m²·K), years.
  */
@@ -17,7 +23,10 @@
 
 #include "EmberlithFiltersModule.h"
 
+#include <vtkSmartPointer.h>
 #include <vtkUnstructuredGridAlgorithm.h>
+
+class vtkTable;
 
 #include <memory>
 #include <string>
@@ -29,6 +38,7 @@ namespace ember
 struct BoundaryCondition;
 struct InitialState;
 struct EnergyLedger;
+struct BodySummary;
 namespace bridge
 {
 class SnapshotCache;
@@ -112,6 +122,14 @@ public:
   void AddOutputTime(double years);
   void ClearOutputTimes();
 
+  // Thermal history: time above thresholds, heat in place, aureoles.
+  void AddThreshold(double celsius);
+  void ClearThresholds();
+  vtkSetMacro(HeatReferenceTemperature, double); ///< T_ref of the heat in place [°C]
+  vtkSetClampMacro(RecoveryFactor, double, 0.0, 1.0);
+  vtkSetMacro(AureoleTemperature, double); ///< aureole limit on the peak temperature [°C]
+  vtkSetMacro(AureoleReflectance, double); ///< aureole limit on EASY%Ro [%Ro]
+
   // Performance.
   vtkSetClampMacro(Integrator, int, RKL2, FORWARD_EULER);
   vtkGetMacro(Integrator, int);
@@ -136,6 +154,11 @@ public:
   /// The energy ledger of the last solve [J].
   ember::EnergyLedger GetEnergyLedger() const;
 
+  /// Per-region table at each output time (port 1 shows it as a vtkTable).
+  const std::vector<ember::BodySummary>& GetBodySummaries() const;
+  /// Region names by region id, as the region map gives them.
+  std::string GetRegionName(int region) const;
+
   /// What went wrong in the last RequestData, for callers that need more than the message.
   enum class Failure
   {
@@ -151,6 +174,7 @@ public:
 protected:
   vtkEmberCoolingSimulation();
   ~vtkEmberCoolingSimulation() override;
+  int FillOutputPortInformation(int port, vtkInformation* info) override;
   int RequestInformation(vtkInformation*, vtkInformationVector**, vtkInformationVector*) override;
   int RequestData(vtkInformation*, vtkInformationVector**, vtkInformationVector*) override;
 
@@ -159,6 +183,7 @@ private:
   void operator=(const vtkEmberCoolingSimulation&) = delete;
 
   void Solve(vtkUnstructuredGrid* input);
+  vtkSmartPointer<vtkTable> MakeSummaryTable() const;
 #ifndef __VTK_WRAP__
   int Fail(vtkDataObject* output, Failure kind, const char* message);
 #endif
@@ -180,9 +205,14 @@ private:
   int NumberOfOutputs = 20;
   double FirstOutputTime = 1.0;
   std::vector<double> OutputTimes;
-  int Integrator = FORWARD_EULER;
+  int Integrator = RKL2;
   int Threads = 0;
   double MemoryBudget = 1024.0;
+  std::vector<double> Thresholds;
+  double HeatReferenceTemperature = 10.0;
+  double RecoveryFactor = 0.1;
+  double AureoleTemperature = 300.0;
+  double AureoleReflectance = 1.0;
   int SolveCount = 0;
   vtkIdType StepsTaken = 0;
   vtkIdType OperatorApplications = 0;

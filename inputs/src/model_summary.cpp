@@ -74,13 +74,13 @@ ModelSummary describe(const Scenario& scenario, const BuiltModel& model, bool wi
     s.regions.push_back({ r.id, r.name, 0, 0.0, 0.0, false });
   for (std::size_t c = 0; c < s.cells; ++c)
   {
-    RegionSummary& r = s.regions[static_cast<std::size_t>(model.mesh.cell_region[c])];
+    RegionCells& r = s.regions[static_cast<std::size_t>(model.mesh.cell_region[c])];
     ++r.cells;
     r.volume += box_cell_volume(model.mesh, c);
   }
   for (const Body& body : scenario.bodies)
   {
-    RegionSummary& r = s.regions[static_cast<std::size_t>(body.region)];
+    RegionCells& r = s.regions[static_cast<std::size_t>(body.region)];
     r.is_body = true;
     r.analytic_volume = analytic_volume(body.shape);
   }
@@ -103,7 +103,7 @@ std::string summary_text(const ModelSummary& s)
       s.min_cell_size[a], s.max_cell_size[a]);
     out << line;
   }
-  for (const RegionSummary& r : s.regions)
+  for (const RegionCells& r : s.regions)
   {
     if (r.is_body)
       std::snprintf(line, sizeof line, "region %d '%s' (body): %zu cells, %.4g m³ (shape: %.4g m³, %+.1f %%)\n",

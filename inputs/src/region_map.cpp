@@ -1,5 +1,7 @@
 #include "ember/inputs/region_map.h"
 
+#include "ember/easy_ro.h"
+
 #include <map>
 #include <sstream>
 
@@ -26,6 +28,47 @@ RegionEntry::Intrusion parse_emplacement(const YAML::Node& map, const YamlContex
   return in;
 }
 
+std::optional<InitialMaturity> parse_organic(const YAML::Node& node, const YamlContext& ctx)
+{
+  if (node.IsScalar())
+    return as_bool(node, ctx) ? std::optional<InitialMaturity>(InitialMaturity{}) : std::nullopt;
+  check_keys(node, ctx, { "initial_reflectance", "burial_age" });
+  if (node["initial_reflectance"] && node["burial_age"])
+    ctx.fail(node, "give either initial_reflectance or burial_age, not both");
+  InitialMaturity m;
+  if (node["initial_reflectance"])
+  {
+    m.kind = InitialMaturity::Kind::Reflectance;
+    m.reflectance = as_number(node["initial_reflectance"], ctx.child("initial_reflectance"));
+    if (!(m.reflectance >= easy_ro_minimum() && m.reflectance < easy_ro_maximum()))
+      ctx.child("initial_reflectance").fail(node["initial_reflectance"],
+        "EASY%Ro spans " + std::to_string(easy_ro_minimum()) + " to " + std::to_string(easy_ro_maximum()) + " %Ro");
+  }
+  else if (node["burial_age"])
+  {
+    m.kind = InitialMaturity::Kind::Burial;
+    const double myr = as_number(node["burial_age"], ctx.child("burial_age"));
+    if (!(myr > 0.0))
+      ctx.child("burial_age").fail(node["burial_age"], "burial age must be > 0 Myr");
+    m.age = myr * 1e6 * kSecondsPerYear;
+  }
+  else
+    ctx.fail(node, "expected true, false, {initial_reflectance: %Ro} or {burial_age: Myr}");
+  return m;
+}
+
+void emit_organic(YAML::Emitter& out, const InitialMaturity& m)
+{
+  out << YAML::Key << "organic" << YAML::Value;
+  if (m.kind == InitialMaturity::Kind::Reflectance)
+    out << YAML::Flow << YAML::BeginMap << YAML::Key << "initial_reflectance" << YAML::Value << m.reflectance << YAML::EndMap;
+  else if (m.kind == InitialMaturity::Kind::Burial)
+    out << YAML::Flow << YAML::BeginMap << YAML::Key << "burial_age" << YAML::Value
+        << m.age / (1e6 * kSecondsPerYear) << YAML::EndMap;
+  else
+    out << true;
+}
+
 RegionMap parse_region_map(const YAML::Node& root, const RockLibrary& library, const YamlContext& ctx)
 {
   check_keys(root, ctx, { "format", "regions" });
@@ -39,7 +82,7 @@ RegionMap parse_region_map(const YAML::Node& root, const RockLibrary& library, c
   {
     const YAML::Node node = list[i];
     const YamlContext item = list_ctx.item(i);
-    check_keys(node, item, { "id", "name", "rock", "emplacement" });
+    check_keys(node, item, { "id", "name", "rock", "emplacement", "organic" });
     RegionEntry entry;
     entry.id = as_integer(require(node, "id", item), item.child("id"));
     if (map.find(entry.id))
@@ -60,6 +103,8 @@ RegionMap parse_region_map(const YAML::Node& root, const RockLibrary& library, c
         in.replaces = entry.rock;
       entry.intrusion = in;
     }
+    if (node["organic"])
+      entry.organic = parse_organic(node["organic"], item.child("organic"));
     map.regions.push_back(std::move(entry));
   }
   return map;

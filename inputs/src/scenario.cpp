@@ -111,7 +111,7 @@ std::vector<Layer> parse_layers(const YAML::Node& list, const YamlContext& ctx,
   {
     const YAML::Node node = list[i];
     const YamlContext item = ctx.item(i);
-    check_keys(node, item, { "name", "rock", "top" });
+    check_keys(node, item, { "name", "rock", "top", "organic" });
     Layer layer;
     layer.rock = rock_index(require(node, "rock", item), library, item.child("rock"));
     layer.name = node["name"] ? as_string(node["name"], item.child("name")) : library.rocks[layer.rock].name;
@@ -125,6 +125,8 @@ std::vector<Layer> parse_layers(const YAML::Node& list, const YamlContext& ctx,
           std::to_string(domain.top - domain.bottom) + " m)");
     layer.z_top = domain.top - depth;
     layer.region = static_cast<int>(i);
+    if (node["organic"])
+      layer.organic = parse_organic(node["organic"], item.child("organic"));
     layers.push_back(std::move(layer));
   }
   return layers;
@@ -378,7 +380,7 @@ Scenario parse_scenario(const YAML::Node& root, const std::string& file)
   s.library = parse_rocks(require(root, "rocks", ctx), ctx.child("rocks"), file, s.library_file);
   s.layers = parse_layers(require(root, "layers", ctx), ctx.child("layers"), s.library, s.domain);
   for (const Layer& layer : s.layers)
-    s.regions.regions.push_back({ layer.region, layer.name, layer.rock, std::nullopt });
+    s.regions.regions.push_back({ layer.region, layer.name, layer.rock, std::nullopt, layer.organic });
 
   if (const YAML::Node bodies = root["bodies"])
   {

@@ -93,6 +93,8 @@ std::string region_map_yaml(const Scenario& scenario)
           << "temperature" << YAML::Value << r.intrusion->temperature << YAML::Key << "time"
           << YAML::Value << r.intrusion->time / kSecondsPerYear << YAML::Key << "replaces"
           << YAML::Value << rocks[r.intrusion->replaces].name << YAML::EndMap;
+    if (r.organic)
+      emit_organic(out, *r.organic);
     out << YAML::EndMap;
   }
   doc.out << YAML::EndSeq;

@@ -71,7 +71,7 @@ double max_cell_in(const std::vector<double>& line, double lo, double hi)
 double expect_volume(const Scenario& s, const BuiltModel& m, std::array<double, 3> shadow, const char* what)
 {
   const ModelSummary summary = describe(s, m, false);
-  const RegionSummary& r = summary.regions[static_cast<std::size_t>(s.bodies[0].region)];
+  const RegionCells& r = summary.regions[static_cast<std::size_t>(s.bodies[0].region)];
   const auto box = bounding_box(s.bodies[0].shape);
   double bound = 0.0;
   for (int a = 0; a < 3; ++a)
@@ -242,7 +242,7 @@ TEST(ModelBuilder, LayersByDepthAndLaterBodiesOverrideEarlierOnes)
 
   const ModelSummary summary = describe(s, m);
   double total = 0.0;
-  for (const RegionSummary& r : summary.regions)
+  for (const RegionCells& r : summary.regions)
     total += r.volume;
   EXPECT_NEAR(total, 2000.0 * 2000.0 * 2000.0, 1e-6 * total); // the cells fill the box
   EXPECT_EQ(summary.cells, m.mesh.n_cells());

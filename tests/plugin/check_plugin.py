@@ -103,6 +103,13 @@ for t in reversed(times):
 sim.UpdatePropertyInformation()
 check(solves == 1 and sim.GetProperty("SolveCount").GetElement(0) == 1,
       "scrubbing back through time does not solve again (solves: %d)" % sim.GetProperty("SolveCount").GetElement(0))
+out = local(sim)
+peak, T = out.GetPointData().GetArray("PeakTemperature"), out.GetPointData().GetArray("Temperature")
+check(peak is not None and all(peak.GetValue(i) >= T.GetValue(i) - 1e-9 for i in range(T.GetNumberOfTuples())),
+      "PeakTemperature is published and never below the current temperature")
+table = sim.GetClientSideObject().GetOutputDataObject(1)
+check(table.GetNumberOfRows() == len(times) and table.GetColumnByName("Early sill: ContactTemperature_C") is not None,
+      "body summary table: one row per output time, per-body columns")
 ledger = local(sim).GetFieldData().GetArray("EnergyLedger_J")
 check(abs(ledger.GetComponent(0, 5)) <= 1e-9 * abs(ledger.GetComponent(0, 0)),
       "energy ledger closes (imbalance %.3g J)" % ledger.GetComponent(0, 5))

@@ -56,7 +56,7 @@ struct BuiltModel
 /// Build the model. Throws InputError naming a body that ends up with no cell.
 BuiltModel build_model(const Scenario& scenario);
 
-struct RegionSummary
+struct RegionCells
 {
   int region = 0;
   std::string name;
@@ -70,7 +70,7 @@ struct ModelSummary
 {
   std::size_t cells = 0, nodes = 0;
   std::array<double, 3> min_cell_size{}, max_cell_size{}; ///< along x, y, z [m]
-  std::vector<RegionSummary> regions;                     ///< by region id
+  std::vector<RegionCells> regions;                     ///< by region id
   /// Rough peak memory of a run in the core [bytes]: mesh, element matrices, nodal model,
   /// operator scratch, integrator vectors and the stored snapshots (no VTK copies).
   double memory_bytes = 0.0;

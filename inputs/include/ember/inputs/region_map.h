@@ -7,6 +7,7 @@
 
 #include "ember/inputs/rock_library.h"
 #include "ember/simulation.h"
+#include "ember/thermal_history.h"
 
 #include <optional>
 #include <span>
@@ -28,6 +29,8 @@ struct RegionEntry
     int replaces = 0;         ///< rock of the region's cells before emplacement (library index)
   };
   std::optional<Intrusion> intrusion;
+  /// Organic-bearing: EASY%Ro is computed here, starting from this maturity.
+  std::optional<InitialMaturity> organic;
 };
 
 struct RegionMap
@@ -39,6 +42,15 @@ struct RegionMap
 /// `temperature` (°C, required) and `time` (years, default 0) of an emplacement, read from `map`
 /// and checked; `replaces` is left 0 for the caller.
 RegionEntry::Intrusion parse_emplacement(const YAML::Node& map, const YamlContext& ctx);
+
+/**
+ * The `organic:` key of a region or layer: `true` (unreacted at the start), `false`,
+ * `{initial_reflectance: %Ro}` or `{burial_age: Myr}` (heated at a constant rate from the
+ * surface to its starting temperature over that time). Returns nullopt for `false`.
+ */
+std::optional<InitialMaturity> parse_organic(const YAML::Node& node, const YamlContext& ctx);
+/// Emit the same key (for re-written region maps).
+void emit_organic(YAML::Emitter& out, const InitialMaturity& maturity);
 
 /// Read a region map against a library (rock names must exist). Throws InputError with position.
 RegionMap parse_region_map(const YAML::Node& root, const RockLibrary& library, const YamlContext& ctx);

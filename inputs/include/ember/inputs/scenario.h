@@ -16,6 +16,7 @@
 #include "ember/simulation.h"
 
 #include <array>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -50,6 +51,7 @@ struct Layer
   int rock = 0;       ///< library index
   double z_top = 0.0; ///< elevation of its top [m]
   int region = 0;     ///< region id (= its index)
+  std::optional<InitialMaturity> organic; ///< organic-bearing: EASY%Ro is computed in it
 };
 
 /// A magmatic body; `region` is its region id (number of layers + its index in the file).
