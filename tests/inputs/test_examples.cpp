@@ -82,3 +82,20 @@ TEST(Examples, LavaFlow)
   ember::testing::expect_volume(s, m, ember::testing::sheet_shadow(s.bodies[0].shape), "Taldrun flow");
   EXPECT_GT(summary.stable_time_step, 0.0);
 }
+
+TEST(Examples, DocumentedScenarioParsesAndBuilds)
+{
+  // The fully commented example of docs/scenario-format.md, with the examples' rock library.
+  const std::string doc = read_text_file(std::string(EMBERLITH_SOURCE_DIR) + "/docs/scenario-format.md");
+  const auto start = doc.rfind("```yaml\n", doc.find("title: Example basin"));
+  ASSERT_NE(start, std::string::npos);
+  std::string text = doc.substr(start + 8, doc.find("```", start + 8) - start - 8);
+  const std::string rocks = "rocks: ../rocks.yaml";
+  text.replace(text.find(rocks), rocks.size(), "rocks: " + std::string(EMBERLITH_EXAMPLE_DATA) + "/rocks.yaml");
+  Scenario s = parse_scenario(load_yaml_text(text, "doc example"), "doc example");
+  EXPECT_EQ(s.bodies.size(), 4u);
+  EXPECT_EQ(s.initial.kind, InitialState::Kind::SteadyState);
+  s.mesh.resolution = 0.25;
+  const BuiltModel m = build_model(s);
+  EXPECT_EQ(describe(s, m, false).regions.size(), 6u);
+}

@@ -141,7 +141,7 @@ TEST(ModelBuilder, PlutonDikeLavaAndSaucerVolumes)
     const double pi = std::numbers::pi;
     expect_volume(s, build_model(s), { pi * hy * 300, pi * hx * 300, pi * 700 * 400 }, "pluton");
   }
-  for (const char* orientation : { "strike: 0, dip: 90", "strike: 30, dip: 70" })
+  for (const char* orientation : { "strike: 0, dip: 90", "strike: 30, dip: 90", "strike: 90, dip: 60" })
   {
     const Scenario s = with_body(std::string("  - {name: D, type: dike, rock: dolerite, temperature: 1100, "
                                              "centre: [0, 0], depth: 1000, ") + orientation +
