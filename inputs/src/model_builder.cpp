@@ -193,8 +193,9 @@ BuiltModel build_model(const Scenario& scenario)
           if (volume_fraction(body.shape, grid, i, j, k) >= 0.5)
             region[grid.index(i, j, k)] = body.region, ++claimed;
     if (claimed == 0)
-      throw InputError(scenario.file + ": body '" + body.name + "' (" + shape_name(body.shape) +
-        ") fills no cell at this resolution (raise mesh.cells_across or mesh.resolution)");
+      throw InputError(body.location + ": the " + shape_name(body.shape) + " '" + body.name +
+        "' fills no cell at this resolution (allowed: bodies at least half filling some cell; "
+        "raise mesh.cells_across or mesh.resolution)");
   }
 
   Mesh box = make_graded_box_hex(model.lines[0], model.lines[1], model.lines[2]);
@@ -210,7 +211,8 @@ BuiltModel build_model(const Scenario& scenario)
     ++count[static_cast<std::size_t>(r)];
   for (const Body& body : scenario.bodies)
     if (count[static_cast<std::size_t>(body.region)] == 0)
-      throw InputError(scenario.file + ": body '" + body.name + "' has no cell left: later bodies cover it");
+      throw InputError(body.location + ": body '" + body.name + "' has no cell left: later bodies "
+        "cover it (allowed: later bodies override earlier ones only in part)");
   return model;
 }
 

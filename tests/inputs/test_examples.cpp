@@ -27,13 +27,26 @@ double box_volume(const Domain& d)
   return (d.x[1] - d.x[0]) * (d.y[1] - d.y[0]) * (d.top - d.bottom);
 }
 
-/// The emitted rock library and region map re-read cleanly (the runner's path to the filters).
-void expect_reemits(const Scenario& s)
+/// The emitted rock library and region map re-read cleanly and set up the core for the built
+/// mesh as the scenario says (the runner's path through the property-assignment filter).
+void expect_reemits(const Scenario& s, const BuiltModel& m)
 {
   const RockLibrary lib = parse_rock_library(load_yaml_text(rock_library_yaml(s), "rocks"), { "rocks", "" });
   const RegionMap map = parse_region_map(load_yaml_text(region_map_yaml(s), "regions"), lib, { "regions", "" });
   EXPECT_EQ(lib.rocks.size(), s.library.rocks.size());
   EXPECT_EQ(map.regions.size(), s.regions.regions.size());
+  const ModelSetup setup = make_model_setup(lib, map, m.mesh.cell_region);
+  ASSERT_EQ(setup.emplacements.size(), s.bodies.size());
+  for (std::size_t b = 0; b < s.bodies.size(); ++b)
+  {
+    EXPECT_EQ(setup.emplacements[b].region, s.bodies[b].region);
+    EXPECT_DOUBLE_EQ(setup.emplacements[b].time, s.bodies[b].time);
+  }
+  for (std::size_t c = 0; c < m.mesh.n_cells(); ++c)
+  {
+    const RegionEntry& r = *s.regions.find(m.mesh.cell_region[c]);
+    ASSERT_EQ(setup.cell_rock[c], r.intrusion ? r.intrusion->replaces : r.rock) << "cell " << c;
+  }
 }
 } // namespace
 
@@ -48,9 +61,8 @@ TEST(Examples, SillBasin)
   EXPECT_EQ(times.size(), 3u); // three sills, three emplacement times
   for (std::size_t i = 0; i < s.library.rocks.size(); ++i)
     EXPECT_FALSE(s.library.sources[i].empty()) << s.library.rocks[i].name;
-  expect_reemits(s);
-
   const BuiltModel m = build_model(s);
+  expect_reemits(s, m);
   const ModelSummary summary = describe(s, m);
   ASSERT_EQ(summary.regions.size(), 7u);
   double total = 0.0;
@@ -72,9 +84,8 @@ TEST(Examples, LavaFlow)
   ASSERT_EQ(s.layers.size(), 1u);
   ASSERT_EQ(s.bodies.size(), 1u);
   EXPECT_EQ(s.boundaries[0].kind, BoundaryCondition::Kind::RadiationConvection);
-  expect_reemits(s);
-
   const BuiltModel m = build_model(s);
+  expect_reemits(s, m);
   const ModelSummary summary = describe(s, m);
   ASSERT_EQ(summary.regions.size(), 2u);
   // The ground fills the box below the surface; the flow stands above it.

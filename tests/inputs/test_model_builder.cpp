@@ -238,6 +238,7 @@ TEST(ModelBuilder, TooManyCellsAndHiddenBodiesAreRefused)
   }
   catch (const InputError& e)
   {
-    EXPECT_NE(std::string(e.what()).find("body 'A' has no cell left"), std::string::npos) << e.what();
+    EXPECT_EQ(std::string(e.what()).rfind("t.yaml:", 0), 0u) << e.what();
+    EXPECT_NE(std::string(e.what()).find(": bodies[0]: body 'A' has no cell left"), std::string::npos) << e.what();
   }
 }
