@@ -5,6 +5,8 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
+#include <cmath>
 #include <set>
 
 using namespace ember;
@@ -109,4 +111,35 @@ TEST(Examples, DocumentedScenarioParsesAndBuilds)
   s.mesh.resolution = 0.25;
   const BuiltModel m = build_model(s);
   EXPECT_EQ(describe(s, m, false).regions.size(), 6u);
+}
+
+// The examples run through the core as the runner will drive it (forward Euler, first output
+// only, coarsest resolution): emplacement, radiation and the steady initial state work on the
+// built meshes, and energy balances (the ledger's identity holds to round-off; 1e-9 relative
+// is far above accumulated round-off for a few steps, far below any modelling error).
+TEST(Examples, CoarseModelsRunTheirFirstOutput)
+{
+  for (const char* name : { "lava-flow", "sill-basin" })
+  {
+    Scenario s = example(name);
+    s.mesh.resolution = 0.25;
+    const BuiltModel m = build_model(s);
+    const RockLibrary lib = parse_rock_library(load_yaml_text(rock_library_yaml(s), "rocks"), { "rocks", "" });
+    const RegionMap map = parse_region_map(load_yaml_text(region_map_yaml(s), "regions"), lib, { "regions", "" });
+    const ModelSetup setup = make_model_setup(lib, map, m.mesh.cell_region);
+    ThermalModel model(m.mesh, setup.rocks, setup.cell_rock);
+    SimulationSettings settings = s.settings();
+    settings.output_times.resize(1);
+    ForwardEuler euler;
+    const SimulationResult result =
+      simulate(model, s.boundaries, s.initial, setup.emplacements, settings, euler);
+    ASSERT_EQ(result.snapshots.size(), 1u) << name;
+    EXPECT_LT(std::abs(result.ledger.relative_imbalance()), 1e-9) << name;
+    const auto& T = result.snapshots[0].temperature;
+    const double hottest = *std::max_element(T.begin(), T.end());
+    EXPECT_GT(hottest, 900.0) << name;   // the bodies are still hot
+    EXPECT_LE(hottest, 1150.0) << name;  // and nothing exceeds their emplacement temperature
+    std::printf("%s: %zu steps to %.3g years, hottest node %.1f °C\n", name, result.steps,
+      settings.output_times[0] / kSecondsPerYear, hottest);
+  }
 }
