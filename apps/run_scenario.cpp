@@ -9,6 +9,7 @@
 
 #include "ember/inputs/model_builder.h"
 #include "ember/inputs/scenario.h"
+#include "ember/body_summary.h"
 
 #include <vtkCallbackCommand.h>
 #include <vtkCommand.h>
@@ -27,7 +28,9 @@
 #include <csignal>
 #include <cstdio>
 #include <ctime>
+#include <cmath>
 #include <fstream>
+#include <limits>
 #include <sstream>
 
 namespace fs = std::filesystem;
@@ -66,6 +69,45 @@ void write_vtu(vtkUnstructuredGrid* grid, const fs::path& file)
   writer->SetDataModeToBinary(); // inline: Debian 12's expat cannot re-read appended data
   if (!writer->Write())
     throw std::runtime_error("cannot write " + file.string() + " (disk full or no permission?)");
+}
+
+// Where the cooling curves look: a body's centre, its lower contact below the centre, and a
+// point in the aureole half the body's local thickness further down.
+nlohmann::json probes(const ember::Mesh& mesh, int region)
+{
+  std::vector<char> in_body(mesh.n_points(), 0);
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+    if (mesh.cell_region[c] == region)
+      for (auto n : mesh.nodes(c))
+        in_body[static_cast<std::size_t>(n)] = 1;
+  ember::Point centre{ 0, 0, 0 };
+  std::size_t count = 0;
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+    if (in_body[i])
+    {
+      for (int d = 0; d < 3; ++d)
+        centre[d] += mesh.points[i][d];
+      ++count;
+    }
+  if (count == 0)
+    return nlohmann::json::object();
+  for (double& v : centre)
+    v /= static_cast<double>(count);
+  // The body's nodes on the vertical line nearest the centre.
+  double best = std::numeric_limits<double>::infinity();
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+    if (in_body[i])
+      best = std::min(best, std::hypot(mesh.points[i][0] - centre[0], mesh.points[i][1] - centre[1]));
+  double z_lo = std::numeric_limits<double>::infinity(), z_hi = -z_lo;
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+    if (in_body[i] && std::hypot(mesh.points[i][0] - centre[0], mesh.points[i][1] - centre[1]) <= best + 1e-6)
+    {
+      z_lo = std::min(z_lo, mesh.points[i][2]);
+      z_hi = std::max(z_hi, mesh.points[i][2]);
+    }
+  const double x = centre[0], y = centre[1];
+  return { { "centre", { x, y, 0.5 * (z_lo + z_hi) } }, { "contact", { x, y, z_lo } },
+    { "aureole", { x, y, z_lo - 0.5 * (z_hi - z_lo) } } };
 }
 
 std::string utc_now()
@@ -186,6 +228,46 @@ int run_scenario(const RunRequest& request)
   std::ofstream(out / "model" / "regions.yaml") << regions_yaml;
   fs::copy_file(request.scenario, out / "model" / "scenario.yaml");
 
+  // Per-body table through time (long format: one row per output time and region).
+  const auto& summaries = sim->GetBodySummaries();
+  std::ofstream csv(out / "bodies.csv");
+  csv << "time_yr,region,name,volume_m3,melt_volume_fraction,heat_in_place_J,recoverable_heat_J,"
+         "solidification_time_yr,contact_temperature_C,aureole_by_temperature_m,aureole_by_easyro_m\n";
+  csv.precision(10);
+  for (const BodySummary& at : summaries)
+  {
+    std::vector<ember::RegionSummary> rows = at.regions;
+    rows.push_back(at.model);
+    for (const ember::RegionSummary& r : rows)
+      csv << at.time / kSecondsPerYear << "," << r.region << ",\""
+          << (r.region < 0 ? std::string("whole model") : sim->GetRegionName(r.region)) << "\","
+          << r.volume << "," << r.melt_volume_fraction << "," << r.heat_in_place << ","
+          << r.recoverable_heat << "," << r.solidification_time / kSecondsPerYear << ","
+          << r.contact_temperature << "," << r.aureole_thickness_temperature << ","
+          << r.aureole_thickness_reflectance << "\n";
+  }
+  csv.close();
+  nlohmann::json bodies = nlohmann::json::array();
+  for (const inputs::Body& body : scenario.bodies)
+  {
+    nlohmann::json b = { { "name", body.name }, { "region", body.region },
+      { "emplaced_yr", body.time / kSecondsPerYear }, { "temperature_C", body.temperature },
+      { "probes", probes(model.mesh, body.region) } };
+    if (!summaries.empty())
+      for (const ember::RegionSummary& r : summaries.back().regions)
+        if (r.region == body.region)
+        {
+          b["volume_m3"] = r.volume;
+          // JSON has no NaN or infinity: null = never molten or still molten at the end.
+          b["solidified_yr"] = std::isfinite(r.solidification_time)
+            ? nlohmann::json(r.solidification_time / kSecondsPerYear) : nlohmann::json();
+          b["contact_temperature_C"] = r.contact_temperature;
+          b["aureole_by_temperature_m"] = r.aureole_thickness_temperature;
+          b["aureole_by_easyro_m"] = r.aureole_thickness_reflectance;
+        }
+    bodies.push_back(b);
+  }
+
   const EnergyLedger ledger = sim->GetEnergyLedger();
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
   nlohmann::json provenance = {
@@ -206,6 +288,7 @@ int run_scenario(const RunRequest& request)
                            { "relative_imbalance", ledger.relative_imbalance() } } },
     { "wall_time_s", wall },
     { "frames", frames },
+    { "bodies", bodies },
   };
   std::ofstream(out / kProvenanceFile) << provenance.dump(2) << "\n";
   folder.commit();
@@ -213,6 +296,15 @@ int run_scenario(const RunRequest& request)
   std::printf("solved %lld steps (%lld operator applications) in %.1f s; energy imbalance %.1e (relative)\n",
     static_cast<long long>(sim->GetStepsTaken()), static_cast<long long>(sim->GetOperatorApplications()),
     wall, ledger.relative_imbalance());
+  for (const auto& b : bodies)
+  {
+    const auto& solid = b.value("solidified_yr", nlohmann::json());
+    std::printf("  %-22s solidified %-14s max contact %6.0f °C   aureole (peak T > threshold) %.3g m\n",
+      b["name"].get<std::string>().c_str(),
+      solid.is_number() ? ("after " + natural_time(solid.get<double>() * kSecondsPerYear)).c_str()
+                        : "not (or never molten)",
+      b.value("contact_temperature_C", std::nan("")), b.value("aureole_by_temperature_m", std::nan("")));
+  }
   std::printf("results: %s\n  open in the viewer: paraview %s\n", fs::absolute(folder.target()).c_str(),
     (fs::absolute(folder.target()) / "temperature.pvd").c_str());
   std::printf("%s\n", kCaution);

@@ -11,6 +11,9 @@ namespace
 
 using Zones = std::array<std::vector<AxisZone>, 3>;
 
+/// Cells across a body at which an inclined sheet may step by one thickness per cell.
+constexpr double kStaircase = 8.0;
+
 /// Beyond this a run would need tens of GB (see describe()'s memory estimate): refuse early.
 constexpr double kMaxCells = 50e6;
 
@@ -24,27 +27,32 @@ std::array<double, 3> body_sizes(const Shape& shape, const std::array<Point, 2>&
   if (const auto* s = std::get_if<Sill>(&shape))
   {
     size[2] = std::min(size[2], s->thickness / n);
-    // Across an inclined rim, a column may shift the sheet by at most its own thickness, so
-    // the rasterised rim stays connected.
+    // Across an inclined rim, a column may shift the sheet by at most its own thickness (at
+    // the default 8 cells across; proportionally more when fewer are asked), so the
+    // rasterised rim stays connected.
     if (s->inclination > 0.0)
       for (int a = 0; a < 2; ++a)
-        size[a] = std::min(size[a], s->thickness / std::tan(s->inclination));
+        size[a] = std::min(size[a], kStaircase / n * s->thickness / std::tan(s->inclination));
   }
   else if (const auto* d = std::get_if<Dike>(&shape))
   {
-    // N cells across the width along the axis most normal to the slab. Along the other axes a
-    // cell may shift the slab by at most one width (h_b |n_b| <= w), so an oblique dike
-    // rasterises as a connected staircase without the cost of N cells along every axis.
+    // N cells across the width along the axis most normal to the slab. Along each of the m
+    // other axes a cell may shift the slab by at most w / m (h_b |n_b| <= w / m): a cell then
+    // spans at most w/N + w of the normal, so cells in the slab's core are mostly inside and
+    // an oblique dike rasterises as a connected staircase at any N, without the cost of N
+    // cells across along every axis.
     const Point normal = d->normal();
-    int a_max = 0;
-    for (int a = 1; a < 3; ++a)
+    int a_max = 0, m = 0;
+    for (int a = 0; a < 3; ++a)
       if (std::abs(normal[a]) > std::abs(normal[a_max]))
         a_max = a;
+    for (int a = 0; a < 3; ++a)
+      m += a != a_max && std::abs(normal[a]) > 1e-12 ? 1 : 0;
     for (int a = 0; a < 3; ++a)
       if (a == a_max)
         size[a] = std::min(size[a], d->width / (n * std::abs(normal[a])));
       else if (std::abs(normal[a]) > 1e-12)
-        size[a] = std::min(size[a], d->width / std::abs(normal[a]));
+        size[a] = std::min(size[a], d->width / (m * std::abs(normal[a])));
   }
   else if (const auto* f = std::get_if<LavaFlow>(&shape))
     size[2] = std::min(size[2], f->thickness / n);
@@ -185,8 +193,9 @@ BuiltModel build_model(const Scenario& scenario)
           if (volume_fraction(body.shape, grid, i, j, k) >= 0.5)
             region[grid.index(i, j, k)] = body.region, ++claimed;
     if (claimed == 0)
-      throw InputError(scenario.file + ": body '" + body.name + "' (" + shape_name(body.shape) +
-        ") fills no cell at this resolution (raise mesh.cells_across or mesh.resolution)");
+      throw InputError(body.location + ": the " + shape_name(body.shape) + " '" + body.name +
+        "' fills no cell at this resolution (allowed: bodies at least half filling some cell; "
+        "raise mesh.cells_across or mesh.resolution)");
   }
 
   Mesh box = make_graded_box_hex(model.lines[0], model.lines[1], model.lines[2]);
@@ -202,7 +211,8 @@ BuiltModel build_model(const Scenario& scenario)
     ++count[static_cast<std::size_t>(r)];
   for (const Body& body : scenario.bodies)
     if (count[static_cast<std::size_t>(body.region)] == 0)
-      throw InputError(scenario.file + ": body '" + body.name + "' has no cell left: later bodies cover it");
+      throw InputError(body.location + ": body '" + body.name + "' has no cell left: later bodies "
+        "cover it (allowed: later bodies override earlier ones only in part)");
   return model;
 }
 

@@ -2,6 +2,7 @@
 #include "ember/inputs/model_builder.h"
 
 #include <algorithm>
+#include <cmath>
 #include <cstdio>
 #include <limits>
 #include <sstream>
@@ -93,7 +94,7 @@ ModelSummary describe(const Scenario& scenario, const BuiltModel& model, bool wi
 std::string summary_text(const ModelSummary& s)
 {
   std::ostringstream out;
-  char line[256];
+  char line[512];
   std::snprintf(line, sizeof line, "cells %zu, nodes %zu, memory about %.0f MB\n", s.cells, s.nodes,
     s.memory_bytes / 1e6);
   out << line;
@@ -106,9 +107,13 @@ std::string summary_text(const ModelSummary& s)
   for (const RegionCells& r : s.regions)
   {
     if (r.is_body)
-      std::snprintf(line, sizeof line, "region %d '%s' (body): %zu cells, %.4g m³ (shape: %.4g m³, %+.1f %%)\n",
-        r.region, r.name.c_str(), r.cells, r.volume, r.analytic_volume,
-        100.0 * (r.volume / r.analytic_volume - 1.0));
+    {
+      const double error = r.volume / r.analytic_volume - 1.0;
+      // 10 %: rule of thumb for "the shape is not resolved", common practice, no source.
+      std::snprintf(line, sizeof line, "region %d '%s' (body): %zu cells, %.4g m³ (shape: %.4g m³, %+.1f %%)%s\n",
+        r.region, r.name.c_str(), r.cells, r.volume, r.analytic_volume, 100.0 * error,
+        std::abs(error) > 0.1 ? " - coarsely resolved: raise mesh.resolution" : "");
+    }
     else
       std::snprintf(line, sizeof line, "region %d '%s' (layer): %zu cells, %.4g m³\n", r.region,
         r.name.c_str(), r.cells, r.volume);

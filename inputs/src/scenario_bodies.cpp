@@ -167,6 +167,8 @@ Body parse_body(const YAML::Node& node, const YamlContext& ctx, const Scenario& 
   check_inside(body.shape, ctx, node, scenario.domain);
 
   body.name = as_string(require(node, "name", ctx), ctx.child("name"));
+  body.location = ctx.origin + ":" + std::to_string(node.Mark().line + 1) + ":" +
+    std::to_string(node.Mark().column + 1) + ": " + ctx.path;
   body.rock = rock_index(require(node, "rock", ctx), scenario.library, ctx.child("rock"));
   const RegionEntry::Intrusion timing = parse_emplacement(node, ctx);
   body.temperature = timing.temperature;

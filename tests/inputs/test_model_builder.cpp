@@ -3,6 +3,7 @@
 // the textbook volume formulas, computed here.)
 #include "ember/inputs/model_builder.h"
 #include "sample_rocks.h"
+#include "volume_check.h"
 
 #include <gtest/gtest.h>
 
@@ -11,6 +12,8 @@
 
 using namespace ember;
 using namespace ember::inputs;
+using ember::testing::expect_volume;
+using ember::testing::max_cell_in;
 
 namespace
 {
@@ -46,40 +49,6 @@ double max_cell(const std::vector<double>& line)
   for (std::size_t i = 1; i < line.size(); ++i)
     h = std::max(h, line[i] - line[i - 1]);
   return h;
-}
-
-/// Largest cell along axis a among cells overlapping [lo, hi].
-double max_cell_in(const std::vector<double>& line, double lo, double hi)
-{
-  double h = 0.0;
-  for (std::size_t i = 1; i < line.size(); ++i)
-    if (line[i] > lo && line[i - 1] < hi)
-      h = std::max(h, line[i] - line[i - 1]);
-  return h;
-}
-
-/// Rasterised and analytic volume of bodies[0], and the first-order bound on their difference.
-///
-/// Tolerance, from the cell size: a cell is misclassified only if the body's surface cuts it,
-/// and then by less than the part of it beyond the surface, so the error lies within a band of
-/// half a cell's extent along the surface normal on each side: |ΔV| <= ∫_S ½ Σ_a h_a |n_a| dA =
-/// Σ_a h_a A_a, with A_a = ½ ∫_S |n_a| dA the body's shadow (projected area) along axis a and h_a
-/// the largest cell size along a over the body. First order in h: curvature terms are smaller
-/// by a further factor h / radius. Faces lying on node planes are exact: their shadow is left
-/// out by the caller. The bound is a worst case; the printed error shows the typical one.
-/// Returns the relative error.
-double expect_volume(const Scenario& s, const BuiltModel& m, std::array<double, 3> shadow, const char* what)
-{
-  const ModelSummary summary = describe(s, m, false);
-  const RegionCells& r = summary.regions[static_cast<std::size_t>(s.bodies[0].region)];
-  const auto box = bounding_box(s.bodies[0].shape);
-  double bound = 0.0;
-  for (int a = 0; a < 3; ++a)
-    bound += max_cell_in(m.lines[a], box[0][a], box[1][a]) * shadow[a];
-  EXPECT_NEAR(r.volume, r.analytic_volume, bound) << what;
-  std::printf("%s: rasterised %.5g m³, formula %.5g m³ (%+.2f %%, bound ±%.1f %%)\n", what, r.volume,
-    r.analytic_volume, 100 * (r.volume / r.analytic_volume - 1), 100 * bound / r.analytic_volume);
-  return r.volume / r.analytic_volume - 1;
 }
 
 /// Shadow areas of a slab: Σ over its face pairs of face area × |normal component|.
@@ -172,7 +141,7 @@ TEST(ModelBuilder, PlutonDikeLavaAndSaucerVolumes)
     const double pi = std::numbers::pi;
     expect_volume(s, build_model(s), { pi * hy * 300, pi * hx * 300, pi * 700 * 400 }, "pluton");
   }
-  for (const char* orientation : { "strike: 0, dip: 90", "strike: 30, dip: 70" })
+  for (const char* orientation : { "strike: 0, dip: 90", "strike: 30, dip: 90", "strike: 90, dip: 60" })
   {
     const Scenario s = with_body(std::string("  - {name: D, type: dike, rock: dolerite, temperature: 1100, "
                                              "centre: [0, 0], depth: 1000, ") + orientation +
@@ -210,7 +179,9 @@ TEST(ModelBuilder, LavaFlowStandsOnTheGroundWithAirBeside)
   for (std::size_t c = 0; c < m.mesh.n_cells(); ++c)
   {
     if (m.mesh.points[m.mesh.nodes(c)[6]][2] > 1e-9)
+    {
       ASSERT_EQ(m.mesh.cell_region[c], 2) << "cell " << c;
+    }
   }
   EXPECT_NE(std::find(m.lines[2].begin(), m.lines[2].end(), 0.0), m.lines[2].end());
   EXPECT_DOUBLE_EQ(m.lines[2].back(), 4.0);
@@ -267,6 +238,7 @@ TEST(ModelBuilder, TooManyCellsAndHiddenBodiesAreRefused)
   }
   catch (const InputError& e)
   {
-    EXPECT_NE(std::string(e.what()).find("body 'A' has no cell left"), std::string::npos) << e.what();
+    EXPECT_EQ(std::string(e.what()).rfind("t.yaml:", 0), 0u) << e.what();
+    EXPECT_NE(std::string(e.what()).find(": bodies[0]: body 'A' has no cell left"), std::string::npos) << e.what();
   }
 }

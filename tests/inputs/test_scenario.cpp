@@ -313,4 +313,10 @@ TEST(ScenarioErrors, OtherChecks)
   expect_error(replaced(kScenario, "kind: geotherm", "kind: linear"), "kind: linear",
     { "initial.kind: 'linear' is not an initial state (allowed: uniform, geotherm, steady)" });
   expect_error(replaced(kScenario, "dip: 90", "dip: 120"), "dip: 120", { "bodies[1].dip: angle in degrees must lie in [0, 90]" });
+  expect_error(replaced(kScenario, "    thickness: 20\n", "    thickness: 20\n    saucer: {inner_radius: 100}\n"),
+    "saucer:", { "bodies[0].saucer: give exactly one of 'inclination' (degrees) or 'rim_rise' (m)" });
+  expect_error(replaced(kScenario, "  - name: Dike B\n",
+                 "  - {name: Flow, type: lava_flow, rock: dolerite, temperature: 1150, time: 5,\n"
+                 "     thickness: 4, outline: [[0, 0], [100, 0], [0, 100]]}\n  - name: Dike B\n"),
+    "time: 5", { "bodies[1].time: a lava flow standing on the ground must be emplaced at time 0" });
 }

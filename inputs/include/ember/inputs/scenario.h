@@ -64,6 +64,7 @@ struct Body
   int replaces = 0;         ///< rock its cells hold before `time`: the layer at its centre
   int region = 0;
   Shape shape;
+  std::string location;     ///< "FILE:LINE:COL: bodies[i]", where the file defines it (for messages)
 };
 
 enum class IntegratorKind
