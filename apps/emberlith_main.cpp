@@ -3,6 +3,7 @@
 //   emberlith run SCENARIO.yaml -o OUTPUT [--force] [--threads N] [--resolution F]
 //   emberlith check SCENARIO.yaml [--resolution F]
 //   emberlith describe OUTPUT
+//   emberlith brief OUTPUT [--isotherms 100,300,600] [--cut half|quadrant|none] [--size WxH] ...
 //
 // Exit codes: 0 success, 1 internal error, 2 bad input (scenario, mesh, properties, command
 // line), 3 output folder exists (not replaced), 4 the solve stopped (non-physical state).
@@ -52,6 +53,18 @@ int main(int argc, char** argv)
   auto* describe_cmd = app.add_subcommand("describe", "list the times, arrays and ranges of a result folder");
   describe_cmd->add_option("folder", folder, "result folder")->required();
 
+  BriefRequest brief;
+  auto* brief_cmd = app.add_subcommand("brief", "render the briefing movie, poster and cooling curves of a result folder");
+  brief_cmd->add_option("folder", brief.folder, "result folder")->required();
+  brief_cmd->add_option("-o,--output", brief.output, "where to put them (default: FOLDER/briefing)");
+  brief_cmd->add_option("--isotherms", brief.isotherms, "isotherm temperatures in °C, comma-separated (default: chosen from the run)");
+  brief_cmd->add_option("--cut", brief.cut, "cut-away: half, quadrant or none")->check(CLI::IsMember({ "half", "quadrant", "none" }));
+  brief_cmd->add_option("--size", brief.size, "frame size WxH in pixels");
+  brief_cmd->add_option("--fps", brief.fps, "movie frames per second")->check(CLI::PositiveNumber);
+  brief_cmd->add_option("--title", brief.title, "title on the pictures");
+  brief_cmd->add_option("--poster-time", brief.poster_time, "poster time in years (default: when the largest body has solidified)");
+  brief_cmd->add_flag("--force", brief.force, "replace an earlier briefing folder");
+
   try
   {
     app.parse(argc, argv);
@@ -73,6 +86,8 @@ int main(int argc, char** argv)
     }
     if (*check_cmd)
       return check_scenario(check_file, resolution);
+    if (*brief_cmd)
+      return brief_result(brief);
     return describe_result(folder);
   }
   catch (const ember::inputs::InputError& e)

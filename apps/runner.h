@@ -37,7 +37,21 @@ struct RunRequest
   bool progress = true;
 };
 
+struct BriefRequest
+{
+  std::filesystem::path folder;
+  std::filesystem::path output; ///< default: FOLDER/briefing
+  std::string isotherms;        ///< "100,300,600" (°C); empty: chosen from the run
+  std::string cut = "half";     ///< half, quadrant or none
+  std::string size = "1280x720";
+  double fps = 6.0;
+  std::string title;
+  std::optional<double> poster_time; ///< [yr]
+  bool force = false;
+};
+
 int run_scenario(const RunRequest& request);
+int brief_result(const BriefRequest& request);
 int check_scenario(const std::filesystem::path& scenario, std::optional<double> resolution);
 int describe_result(const std::filesystem::path& folder);
 

@@ -16,8 +16,8 @@ import sys
 
 CAUTION = ("Model estimate from uncertain inputs - not a basis for site-access, drilling or well "
            "decisions; follow local authorities and licensed professionals.")
-# Perceptually uniform and readable with colour-vision deficiencies; dark = cold, bright = hot.
-COLOUR_MAP = "Inferno (matplotlib)"
+# Perceptually uniform and readable with colour-vision deficiencies; dark blue = cold, yellow = hot.
+COLOUR_MAP = "Plasma (matplotlib)"
 TEXT_COLOUR = [0.1, 0.1, 0.1]
 BACKGROUND = [1.0, 1.0, 1.0]
 SECONDS_PER_YEAR = 365.25 * 86400.0
@@ -83,20 +83,33 @@ def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", te
     if clip is not source:
         clip.Scalars = ["POINTS", "Temperature"]
 
-    lut = pv.GetColorTransferFunction("Temperature")
-    lut.ApplyPreset(COLOUR_MAP, True)
-    lut.RescaleTransferFunction(t_min, t_max)
-    lut.AutomaticRescaleRangeMode = "Never"
-    # Each isotherm is coloured by its own temperature and marked on the legend: its label.
-    lut.Annotations = sum([[repr(float(v)), "%g °C" % v] for v in isotherms], [])
     body = pv.Show(clip, view)
     pv.ColorBy(body, ("POINTS", "Temperature"))
     if isotherms:
-        contour = pv.Contour(Input=clip, ContourBy=["POINTS", "Temperature"], Isosurfaces=list(isotherms))
+        # The isotherm shells stand in the removed part, beside the cut face they meet.
+        contour = pv.Contour(Input=source, ContourBy=["POINTS", "Temperature"], Isosurfaces=list(isotherms))
         contour.ComputeScalars = 1
-        surfaces = pv.Show(contour, view)
+        shells = contour
+        if clip is not source:
+            shells = pv.Clip(Input=contour, ClipType="Plane")
+            if cut == "half":
+                shells.ClipType.Origin = centre
+                shells.ClipType.Normal = [0, 1, 0]
+                shells.Invert = 0
+            else:
+                shells = pv.Clip(Input=contour, ClipType="Box")
+                shells.ClipType.Position = [centre[0], centre[1], b[4] - width]
+                shells.ClipType.Length = [2 * width, 2 * width, 4 * width]
+                shells.Invert = 1
+        surfaces = pv.Show(shells, view)
         pv.ColorBy(surfaces, ("POINTS", "Temperature"))
-        surfaces.Opacity = 0.35
+        surfaces.Opacity = 0.3
+    lut = pv.GetColorTransferFunction("Temperature")
+    lut.ApplyPreset(COLOUR_MAP, True)
+    lut.AutomaticRescaleRangeMode = "Never"
+    lut.RescaleTransferFunction(t_min, t_max)
+    # Each isotherm is coloured by its own temperature and marked on the legend: its label.
+    lut.Annotations = sum([[repr(float(v)), "%g °C" % v] for v in isotherms], [])
     bar = pv.GetScalarBar(lut, view)
     bar.Title = "Temperature"
     bar.ComponentTitle = "[°C]"
@@ -107,6 +120,9 @@ def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", te
     bar.WindowLocation = "Any Location"
     bar.Position = [0.89, 0.15]
     bar.ScalarBarLength = 0.6
+    bar.AutomaticLabelFormat = 0
+    bar.LabelFormat = "%.0f"
+    bar.RangeLabelFormat = "%.0f"
 
     def text(value, location, size):
         t = pv.Text(Text=value)
@@ -118,11 +134,12 @@ def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", te
 
     text(title or "Cooling of the intrusions", "Upper Center", 22)
     clock = text("", "Upper Left Corner", 18)
-    text(CAUTION, "Lower Center", 11)
-    text("Cut-away view, no vertical exaggeration", "Lower Left Corner", 11)
+    text(CAUTION, "Lower Left Corner", 10)
+    text("Cut-away view, no vertical exaggeration", "Upper Right Corner", 11)
 
     length = nice_length(b[1] - b[0])
-    ruler = pv.Ruler(Point1=[b[0], b[2], b[4]], Point2=[b[0] + length, b[2], b[4]])
+    # Scale bar along the top edge of the cut face.
+    ruler = pv.Ruler(Point1=[b[0], centre[1], b[5]], Point2=[b[0] + length, centre[1], b[5]])
     ruler_display = pv.Show(ruler, view)
     ruler_display.LabelFormat = "%-#.4g m"
     ruler_display.Color = TEXT_COLOUR
