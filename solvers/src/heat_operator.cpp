@@ -5,6 +5,7 @@
 #include <oneapi/tbb/parallel_reduce.h>
 
 #include <Eigen/Sparse>
+#include <Eigen/IterativeLinearSolvers>
 #include <Eigen/SparseCholesky>
 
 #include <algorithm>
@@ -377,11 +378,22 @@ std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
       }
     Eigen::SparseMatrix<double> A(m, m);
     A.setFromTriplets(entries.begin(), entries.end());
-    Eigen::SimplicialLDLT<Eigen::SparseMatrix<double>> solver(A);
+    // Preconditioned conjugate gradients, warm-started from the last iterate: a sparse direct
+    // factorisation of a 3-D mesh fills in badly (SimplicialLDLT took ~6 minutes at 55k nodes,
+    // CG with incomplete Cholesky well under a second per Picard iteration).
+    Eigen::ConjugateGradient<Eigen::SparseMatrix<double>, Eigen::Lower | Eigen::Upper,
+      Eigen::IncompleteCholesky<double>> solver;
+    solver.setTolerance(1e-14);
+    solver.setMaxIterations(static_cast<Eigen::Index>(10 * m + 1000));
+    solver.compute(A);
+    Eigen::VectorXd guess(m);
+    for (std::size_t i = 0; i < n; ++i)
+      if (unknown[i] >= 0)
+        guess[unknown[i]] = T[i];
+    const Eigen::VectorXd x = solver.info() == Eigen::Success ? solver.solveWithGuess(rhs, guess) : guess;
     if (solver.info() != Eigen::Success)
-      throw std::runtime_error("steady initial state: the conduction matrix is singular (is "
-                               "every piece of the mesh connected to a held boundary?)");
-    const Eigen::VectorXd x = solver.solve(rhs);
+      throw std::runtime_error("steady initial state: the conduction system could not be solved "
+                               "(is every piece of the mesh connected to a held boundary?)");
     double change = 0.0;
     for (std::size_t i = 0; i < n; ++i)
       if (unknown[i] >= 0)
