@@ -299,10 +299,11 @@ int run_scenario(const RunRequest& request)
   for (const auto& b : bodies)
   {
     const auto& solid = b.value("solidified_yr", nlohmann::json());
-    std::printf("  %-22s solidified %-14s max contact %6.0f °C   aureole (peak T > threshold) %.3g m\n",
+    std::printf("  %-22s solidified %-28s max contact %6.0f °C   aureole (peak T > threshold) %.3g m\n",
       b["name"].get<std::string>().c_str(),
-      solid.is_number() ? ("after " + natural_time(solid.get<double>() * kSecondsPerYear)).c_str()
-                        : "not (or never molten)",
+      solid.is_number()
+        ? (natural_time((solid.get<double>() - b["emplaced_yr"].get<double>()) * kSecondsPerYear) + " after emplacement").c_str()
+        : "not by the end",
       b.value("contact_temperature_C", std::nan("")), b.value("aureole_by_temperature_m", std::nan("")));
   }
   std::printf("results: %s\n  open in the viewer: paraview %s\n", fs::absolute(folder.target()).c_str(),
