@@ -54,9 +54,11 @@ def nice_length(width):
     return power
 
 
-def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", temperature_range=None):
+def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", temperature_range=None,
+                          live_clock=False):
     """Cut-away coloured by temperature, labelled isotherms, legend, time, title, scale bar and
-    caution in `view`. Returns the text source that shows the time (update it per frame)."""
+    caution in `view`. Returns the text source that shows the time (update it per frame), or,
+    with live_clock (the viewer's animation), an annotation that follows the view's time."""
     from paraview import simple as pv
 
     info = source.GetDataInformation()
@@ -133,7 +135,14 @@ def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", te
         return t
 
     text(title or "Cooling of the intrusions", "Upper Center", 22)
-    clock = text("", "Upper Left Corner", 18)
+    if live_clock:
+        clock = pv.AnnotateTime(Format="Elapsed: {time:.4g} years")
+        d = pv.Show(clock, view)
+        d.WindowLocation = "Upper Left Corner"
+        d.FontSize = 18
+        d.Color = TEXT_COLOUR
+    else:
+        clock = text("", "Upper Left Corner", 18)
     text(CAUTION, "Lower Left Corner", 10)
     text("Cut-away view, no vertical exaggeration", "Upper Right Corner", 11)
 

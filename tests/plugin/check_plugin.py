@@ -167,6 +167,25 @@ pixels = png.GetOutput().GetPointData().GetScalars()
 colours = {tuple(int(c) for c in pixels.GetTuple(i)[:3]) for i in range(0, pixels.GetNumberOfTuples(), 7)}
 check(len(colours) > 50, "screenshot %s is not blank (%d distinct colours)" % (shot, len(colours)))
 
+# The viewer's one-click briefing layout (the macro the plugin ships) on the simulation output.
+briefing_view = CreateView("RenderView")
+briefing_view.ViewSize = [960, 540]
+SetActiveView(briefing_view)
+SetActiveSource(sim)
+macro = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "plugin", "python",
+                     "EmberlithBriefingView.py")
+exec(compile(open(macro).read(), macro, "exec"), {"__name__": "__main__"})
+briefing_view.ViewTime = 10.0
+Render(briefing_view)
+shot = os.path.join(outdir, "briefing_macro.png")
+SaveScreenshot(shot, briefing_view, ImageResolution=[960, 540])
+png.SetFileName(shot)
+png.Modified()
+png.Update()
+pixels = png.GetOutput().GetPointData().GetScalars()
+colours = {tuple(int(c) for c in pixels.GetTuple(i)[:3]) for i in range(0, pixels.GetNumberOfTuples(), 7)}
+check(len(colours) > 50, "briefing macro lays out a picture %s (%d colours)" % (shot, len(colours)))
+
 # The log-spaced schedule: 20 times from 1 to 1000 yr by default.
 sim2 = SimulateCooling(Input=rocks)
 sim2.UpdatePipelineInformation()
