@@ -35,7 +35,9 @@ def natural_time(years):
 
 
 def default_isotherms(t_min, t_max):
-    """Three to four round temperatures spread over the run's range (°C)."""
+    """Three to four round temperatures spread over (t_min, t_max) (°C); t_min is the warmest
+    background (the model base before any body), so the shells show the bodies' heat, not the
+    geotherm's flat isotherms."""
     candidates = [50, 100, 150, 200, 300, 400, 500, 600, 700, 800, 900, 1000, 1100]
     inside = [c for c in candidates if t_min + 0.05 * (t_max - t_min) < c < t_max - 0.05 * (t_max - t_min)]
     if len(inside) <= 4:
@@ -55,7 +57,7 @@ def nice_length(width):
 
 
 def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", temperature_range=None,
-                          live_clock=False):
+                          live_clock=False, background=None):
     """Cut-away coloured by temperature, labelled isotherms, legend, time, title, scale bar and
     caution in `view`. Returns the text source that shows the time (update it per frame), or,
     with live_clock (the viewer's animation), an annotation that follows the view's time."""
@@ -69,7 +71,7 @@ def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", te
         temperature_range = source.PointData["Temperature"].GetRange()
     t_min, t_max = temperature_range
     if isotherms is None:
-        isotherms = default_isotherms(t_min, t_max)
+        isotherms = default_isotherms(background if background is not None else t_min, t_max)
 
     if cut == "quadrant":
         clip = pv.Clip(Input=source, ClipType="Box")
@@ -134,7 +136,7 @@ def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", te
         d.Color = TEXT_COLOUR
         return t
 
-    text(title or "Cooling of the intrusions", "Upper Center", 22)
+    text((title or "Cooling of the intrusions") + "\nCut-away view, no vertical exaggeration", "Upper Center", 18)
     if live_clock:
         clock = pv.AnnotateTime(Format="Elapsed: {time:.4g} years")
         d = pv.Show(clock, view)
@@ -144,7 +146,6 @@ def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", te
     else:
         clock = text("", "Upper Left Corner", 18)
     text(CAUTION, "Lower Left Corner", 10)
-    text("Cut-away view, no vertical exaggeration", "Upper Right Corner", 11)
 
     length = nice_length(b[1] - b[0])
     # Scale bar along the top edge of the cut face.
@@ -162,6 +163,20 @@ def lay_out_briefing_view(source, view, isotherms=None, cut="half", title="", te
     view.ResetCamera(False)
     view.CameraParallelProjection = 0
     return clock
+
+
+def base_temperature(frame_file):
+    """Warmest temperature on the model's base at the first output: the background's top."""
+    from vtkmodules.vtkIOXML import vtkXMLUnstructuredGridReader
+
+    reader = vtkXMLUnstructuredGridReader()
+    reader.SetFileName(frame_file)
+    reader.Update()
+    grid = reader.GetOutput()
+    z_min = grid.GetBounds()[4]
+    T = grid.GetPointData().GetArray("Temperature")
+    tol = 1e-6 * max(1.0, abs(z_min))
+    return max(T.GetValue(i) for i in range(grid.GetNumberOfPoints()) if grid.GetPoint(i)[2] <= z_min + tol)
 
 
 def probe_series(frames, folder, probes):
@@ -243,6 +258,7 @@ def make_briefing(folder, out, isotherms=None, cut="half", size=(1280, 720), fps
 
     reader = pv.PVDReader(FileName=os.path.join(folder, "temperature.pvd"))
     reader.UpdatePipelineInformation()
+    background = base_temperature(os.path.join(folder, frames[0]["file"]))
     t_min, t_max = math.inf, -math.inf
     for t in times:
         reader.UpdatePipeline(t)
@@ -250,7 +266,7 @@ def make_briefing(folder, out, isotherms=None, cut="half", size=(1280, 720), fps
         t_min, t_max = min(t_min, lo), max(t_max, hi)
     view = pv.CreateView("RenderView")
     view.ViewSize = list(size)
-    clock = lay_out_briefing_view(reader, view, isotherms, cut, title, (t_min, t_max))
+    clock = lay_out_briefing_view(reader, view, isotherms, cut, title, (t_min, t_max), background=background)
 
     for k, t in enumerate(times):
         view.ViewTime = t
