@@ -8,6 +8,8 @@ EMBER_PACKAGES=(
   libeigen3-dev libtbb-dev libboost-filesystem-dev libboost-math-dev
   # tests
   libgtest-dev python3-numpy python3-scipy
+  # cooling curves in the briefing (pvbatch uses the system python3)
+  python3-matplotlib
   # well-kept helpers (YAML, CLI, logging, JSON)
   libyaml-cpp-dev libcli11-dev libfmt-dev libspdlog-dev nlohmann-json3-dev
   # viewer SDK and what find_package(ParaView) needs besides
