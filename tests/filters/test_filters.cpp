@@ -5,6 +5,7 @@
 // core itself (its own verification is in tests/solvers); here the point is that the filters
 // change nothing on the way.
 #include "EmberSnapshotCache.h"
+#include "EmberVtkConversion.h"
 #include "vtkEmberCoolingSimulation.h"
 #include "vtkEmberIsothermDepth.h"
 #include "vtkEmberRockAssignment.h"
@@ -135,28 +136,11 @@ TEST(CoolingSimulationFilter, MatchesCoreAndSpillingChangesNothing)
   // The core on the same model: voxels → hexahedra, same rocks, same conditions.
   rocks->Update();
   auto* grid = vtkUnstructuredGrid::SafeDownCast(rocks->GetOutput());
-  std::vector<ember::Point> points(static_cast<std::size_t>(grid->GetNumberOfPoints()));
-  for (std::size_t i = 0; i < points.size(); ++i)
-    grid->GetPoint(static_cast<vtkIdType>(i), points[i].data());
   const auto library = ember::inputs::parse_rock_library(
     ember::inputs::load_yaml_text(kRocks, "r"), { "r", "" });
   const auto map = ember::inputs::parse_region_map(
     ember::inputs::load_yaml_text(kRegions, "m"), library, { "m", "" });
-  std::vector<int> regions;
-  for (vtkIdType c = 0; c < grid->GetNumberOfCells(); ++c)
-    regions.push_back(static_cast<int>(grid->GetCellData()->GetArray("RegionId")->GetTuple1(c)));
-  std::vector<std::uint8_t> types;
-  std::vector<std::int64_t> offsets{ 0 }, conn;
-  for (vtkIdType c = 0; c < grid->GetNumberOfCells(); ++c)
-  {
-    types.push_back(static_cast<std::uint8_t>(grid->GetCellType(c)));
-    vtkIdType n;
-    const vtkIdType* ids;
-    grid->GetCells()->GetCellAtId(c, n, ids);
-    conn.insert(conn.end(), ids, ids + n);
-    offsets.push_back(static_cast<std::int64_t>(conn.size()));
-  }
-  const ember::Mesh mesh = ember::mesh_from_vtk_arrays(points, types, offsets, conn, regions);
+  const ember::Mesh mesh = ember::bridge::to_core_mesh(grid, "RegionId");
   const auto setup = ember::inputs::make_model_setup(library, map, mesh.cell_region);
   ember::ThermalModel model(mesh, setup.rocks, setup.cell_rock);
   ember::BoundaryCondition top;

@@ -7,10 +7,11 @@
 // Usage: emberlith-test-fixture OUTPUT_DIR
 // The model and its parameters are made up for the test; check_plugin.py sets the same ones
 // on the filters (keep the two in step).
+#include "../inputs/sample_rocks.h"
+#include "EmberVtkConversion.h"
 #include "ember/inputs/region_map.h"
 #include "ember/simulation.h"
 
-#include <vtkCellArray.h>
 #include <vtkCellData.h>
 #include <vtkIntArray.h>
 #include <vtkNew.h>
@@ -27,25 +28,12 @@ namespace
 {
 using namespace ember;
 
-const char* kRocks = R"(format: 1
-rocks:
-  - name: host shale
-    density: 2450
-    conductivity: {law: vosteen-schellschmidt, at_25C: 1.8, class: sedimentary}
-    heat_capacity: {law: waples-waples, at_20C: 850}
-    heat_production: 1.5
-  - name: dolerite
-    density: 2900
-    conductivity: {law: zoth-haenel, A: 1.18, B: 474}
-    heat_capacity: 1000
-    latent_heat: 400000
-    solidus: 980
-    liquidus: 1150
-)";
+// The input tests' two sample rocks (test values, no source).
+const std::string kRocks = "format: 1\nrocks:\n" + ember::testing::kSampleRockList;
 
 const char* kRegions = R"(format: 1
 regions:
-  - {id: 0, name: Host, rock: host shale}
+  - {id: 0, name: Host, rock: shale}
   - id: 1
     name: Early sill
     rock: dolerite
@@ -53,33 +41,18 @@ regions:
   - id: 2
     name: Late dike
     rock: dolerite
-    emplacement: {temperature: 1120, time: 5, replaces: host shale}
+    emplacement: {temperature: 1120, time: 5, replaces: shale}
 )";
 
 // The times check_plugin.py sets as an explicit list [yr].
 const double kTimes[] = { 1, 3, 10, 30, 100 };
 
-vtkNew<vtkUnstructuredGrid> to_grid(const Mesh& mesh, bool with_region)
+// The fixture mesh as the viewer reads it; without RegionId for the refusal test.
+vtkSmartPointer<vtkUnstructuredGrid> to_grid(const Mesh& mesh, bool with_region)
 {
-  vtkNew<vtkUnstructuredGrid> grid;
-  vtkNew<vtkPoints> points;
-  points->SetDataTypeToDouble();
-  for (const auto& p : mesh.points)
-    points->InsertNextPoint(p.data());
-  grid->SetPoints(points);
-  vtkNew<vtkIntArray> region;
-  region->SetName("RegionId");
-  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-  {
-    vtkIdType ids[8];
-    const auto nodes = mesh.nodes(c);
-    for (std::size_t a = 0; a < nodes.size(); ++a)
-      ids[a] = nodes[a];
-    grid->InsertNextCell(VTK_HEXAHEDRON, 8, ids);
-    region->InsertNextValue(mesh.cell_region[c]);
-  }
-  if (with_region)
-    grid->GetCellData()->AddArray(region);
+  vtkSmartPointer<vtkUnstructuredGrid> grid = ember::bridge::to_vtk_grid(mesh);
+  if (!with_region)
+    grid->GetCellData()->RemoveArray("RegionId");
   return grid;
 }
 
