@@ -172,15 +172,18 @@ Problem make_problem(double nodes, bool tets)
   return p;
 }
 
-// Node-updates per second of one full forward-Euler step (stable step, rate, update, T(E)).
-// The step is 1 s long so the state, and with it the cost, stays the same across repeats.
+// Node-updates per second of one full forward-Euler step at the stable step (rate with the
+// stability bound in one pass, then update and T(E) in a second), as a run takes it: the step
+// is the stable one, so T(E) does the Newton work of a real step. Over the repeats the state
+// moves by a few stable steps, which does not change the cost.
 double step_throughput(Problem& p, int threads, int repeats)
 {
   tbb::task_arena arena(threads);
   ForwardEuler fe;
-  fe.advance(*p.model, *p.op, 1.0, 0.9, p.E, p.T, arena); // warm-up, allocations
+  constexpr double kAnyInterval = 1e15; // s; the stable step is far shorter
+  fe.advance(*p.model, *p.op, kAnyInterval, 0.9, p.E, p.T, arena); // warm-up, allocations
   const double t =
-    best_time(repeats, [&] { fe.advance(*p.model, *p.op, 1.0, 0.9, p.E, p.T, arena); });
+    best_time(repeats, [&] { fe.advance(*p.model, *p.op, kAnyInterval, 0.9, p.E, p.T, arena); });
   return p.mesh.n_points() / t;
 }
 
@@ -197,26 +200,35 @@ void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
          n / best_time(repeats, [&] { p.op->rate(p.T, rate, tally, arena); }),
          "node-updates/s",
          tag);
-  figure("stable_step_throughput",
-         n / best_time(repeats, [&] { (void)p.op->stable_time_step(p.T, arena); }),
+  double dt = 0.0;
+  figure("rate_and_stable_step_throughput",
+         n / best_time(repeats, [&] { dt = p.op->rate_and_stable_step(p.T, rate, tally, arena); }),
          "node-updates/s",
          tag);
-  // T(E) after a real step's change of E (with E and T already consistent the Newton
-  // iteration would stop at once and flatter the figure); T is reset to the old guess first.
-  const std::vector<double> T_old = p.T;
-  std::vector<double> E_new = p.E;
-  for (std::size_t i = 0; i < E_new.size(); ++i)
-    E_new[i] += 1.0 * rate[i];
-  figure("temperature_recovery_throughput",
+  // Update and T(E) over one stable step's change of E (with E and T already consistent the
+  // Newton iteration would stop at once and flatter the figure); E and T are reset each time.
+  const std::vector<double> T_old = p.T, E_old = p.E;
+  figure("update_and_temperature_throughput",
          n / best_time(repeats,
                        [&]
                        {
                          std::copy(T_old.begin(), T_old.end(), p.T.begin());
-                         update_temperatures(*p.model, *p.op, E_new, p.T, arena);
+                         std::copy(E_old.begin(), E_old.end(), p.E.begin());
+                         arena.execute([&] {
+                           tbb::parallel_for(tbb::blocked_range<std::size_t>(0, p.E.size(), 2048),
+                             [&](const tbb::blocked_range<std::size_t>& r) {
+                               for (std::size_t i = r.begin(); i != r.end(); ++i)
+                               {
+                                 p.E[i] += 0.9 * dt * rate[i];
+                                 p.T[i] = p.model->temperature(i, p.E[i], p.T[i]);
+                               }
+                             });
+                         });
                        }),
          "node-updates/s",
-         tag);
+         tag + " includes=copy-of-E-and-T");
   p.T = T_old;
+  p.E = E_old;
 }
 
 // ---- CSR yardstick: y = A x with the assembled stiffness pattern of the same mesh ------------
@@ -230,7 +242,7 @@ struct Csr
 Csr assemble_csr(const ThermalModel& model)
 {
   const Mesh& mesh = model.mesh();
-  const ElementMatrices& em = model.elements();
+  const ElementMatrices em = compute_element_matrices(mesh);
   const std::size_t n = mesh.n_points();
   Csr a;
   a.row_start.assign(n + 1, 0);
@@ -290,50 +302,45 @@ double csr_throughput(const Csr& a, int threads, int repeats)
 }
 
 // Bytes one forward-Euler step streams per node, counted from the arrays each pass reads or
-// writes once (compulsory traffic; writes count twice for write-allocate; the gathers of T
-// through the connectivity are assumed to hit cache). Per pass:
-//   stable step: cells (connectivity 8/cell-node, rock 4, offsets 8) + Σ|K| rows 8 and
-//     k·Σ|K| out 8+8 per cell-node; nodes: gather (4 + 8 per entry), start 8, row sum 8+8,
-//     then λ: row sum 8, capacity 8, held flag 1;
-//   rate: cells (connectivity, rock, two offsets) + stiffness 8·m² per cell + flux out 8+8 per
-//     cell-node; nodes: gather (4 + 8 per entry), start 8, source 8, rate 8+8; source sum 8 + 1;
-//   update: E 8+8, rate 8;  T(E): E 8, T 8+8, share offset 8, 24 per node share.
-double step_bytes_per_node(const ThermalModel& model)
+// writes once (compulsory traffic; a written array counts 16 B per double: write-allocate plus
+// write-back; the gathers of T along the edges are assumed to hit cache). Per pass:
+//   rate + stable step: edge start 4, per edge neighbour 4 + weight 8 + rock 1; T 8, source 8,
+//     inverse capacity 8, node kind 1; rate out 16;
+//   update + T(E): rate 8, E in/out 16, T in/out 16, share offset 8, 24 per node share.
+double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
 {
-  const Mesh& mesh = model.mesh();
-  const double n = mesh.n_points(), cells = mesh.n_cells();
-  const double entries = mesh.cell_nodes.size();
-  const double stiffness = model.elements().stiffness.size();
+  const double n = model.n_nodes();
   double shares = 0;
-  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+  for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
-  const double stable = entries * 8 + cells * (4 + 8) + entries * (8 + 16) + entries * (4 + 8) +
-                        n * (8 + 16) + n * (8 + 8 + 1);
-  const double rate = entries * 8 + cells * (4 + 8 + 8) + stiffness * 8 + entries * 16 +
-                      entries * (4 + 8) + n * (8 + 8 + 16) + n * (8 + 1);
-  const double update = n * (16 + 8);
-  const double recovery = n * (8 + 16 + 8) + shares * 24;
-  return (stable + rate + update + recovery) / n;
+  const double rate = n * (4 + 8 + 8 + 8 + 1 + 16) + op.edge_entries() * (4.0 + 8 + 1);
+  const double update = n * (8 + 16 + 16 + 8) + shares * 24;
+  return (rate + update) / n;
 }
 
-// Solver state per node [B], counted from the containers the run keeps (mesh, element
-// matrices, node-cell slots, shares, operator scratch, E and T, the integrator's vectors).
-double state_bytes_per_node(const ThermalModel& model, IntegratorKind kind)
+// Solver state per node [B], counted from the containers a run keeps, with the input mesh
+// (points, connectivity, cell types and regions) reported apart.
+struct StateBytes
+{
+  double mesh, model, op, vectors;
+};
+StateBytes state_bytes_per_node(const ThermalModel& model, const HeatOperator& op,
+  IntegratorKind kind)
 {
   const Mesh& mesh = model.mesh();
-  const ElementMatrices& em = model.elements();
   const double n = mesh.n_points(), cells = mesh.n_cells();
   const double slots = mesh.cell_nodes.size();
   double shares = 0;
   for (std::size_t i = 0; i < mesh.n_points(); ++i)
     shares += model.shares(i).size();
-  const double mesh_bytes = n * 24 + cells * (1 + 8 + 4) + slots * 8;
-  const double element_bytes = em.stiffness.size() * 8.0 + cells * 8 * 2 + slots * 8;
-  const double model_bytes = cells * 4 + n * 8 + slots * 16 + n * 8 + shares * 24 + n * 16;
-  const double operator_bytes = slots * (8 + 8 + 4) + n * (8 + 8 + 8 + 1); // flux, Σ|K|, gather
-  const double integrator_vectors = kind == IntegratorKind::RKL2 ? 6 : 1;  // + E and T
-  return (mesh_bytes + element_bytes + model_bytes + operator_bytes) / n + 8 * 2 +
-         8 * integrator_vectors;
+  StateBytes b;
+  b.mesh = (n * 24 + cells * (1 + 8 + 4) + slots * 8) / n;
+  b.model = (cells * 4 + slots * (sizeof(CellSlot) + 8) + (n + 1) * 8 * 2 +
+              shares * sizeof(NodeShare) + n * 16) / n; // cell rock, slots, cell-node volumes,
+                                                       // offsets, shares, node volume + source
+  b.op = op.bytes_per_node();
+  b.vectors = 8 * 2 + 8 * (kind == IntegratorKind::RKL2 ? 6 : 1); // E, T + integrator
+  return b;
 }
 
 // ---- Sections ---------------------------------------------------------------------------------
@@ -377,7 +384,9 @@ void section_step_and_csr(bool step, bool csr)
       }
     if (step)
       figure("step_scaling_2t_over_1t", step_2t / step_1t, "ratio", "mesh=" + mesh_name);
-    const double bytes = step_bytes_per_node(*p.model);
+    const double bytes = step_bytes_per_node(*p.model, *p.op);
+    figure("edges_per_node", double(p.op->edge_entries()) / p.mesh.n_points(), "1",
+      "mesh=" + mesh_name);
     figure("step_bytes_per_node", bytes, "B", "mesh=" + mesh_name + " method=counted");
     figure("step_roofline",
            triad_two_threads / bytes,
@@ -457,18 +466,19 @@ void section_memory()
          (resident_bytes() - before) / n,
          "B",
          "mesh=hex integrator=rkl2 method=resident-set-growth target=300");
-  figure("state_bytes_per_node_counted",
-         state_bytes_per_node(*p.model, IntegratorKind::RKL2),
-         "B",
-         "mesh=hex integrator=rkl2 method=container-sizes target=300");
-  figure("state_bytes_per_node_counted",
-         state_bytes_per_node(*p.model, IntegratorKind::ForwardEuler),
-         "B",
-         "mesh=hex integrator=forward-euler method=container-sizes target=300");
-  figure("element_matrix_bytes_per_node",
-         p.model->elements().stiffness.size() * 8.0 / n,
-         "B",
-         "mesh=hex");
+  for (IntegratorKind kind : { IntegratorKind::RKL2, IntegratorKind::ForwardEuler })
+  {
+    const StateBytes b = state_bytes_per_node(*p.model, *p.op, kind);
+    const std::string tag = "mesh=hex integrator=" + integrator_name(kind) + " method=container-sizes";
+    figure("state_bytes_per_node_counted", b.model + b.op + b.vectors, "B",
+      tag + " scope=solver target=300");
+    figure("state_bytes_per_node_counted", b.mesh + b.model + b.op + b.vectors, "B",
+      tag + " scope=solver+input-mesh");
+    figure("state_bytes_per_node_part", b.mesh, "B", "part=input-mesh");
+    figure("state_bytes_per_node_part", b.model, "B", "part=thermal-model");
+    figure("state_bytes_per_node_part", b.op, "B", "part=heat-operator");
+    figure("state_bytes_per_node_part", b.vectors, "B", "part=E,T,integrator " + tag);
+  }
 }
 
 // Reference time-to-solution problem (issue #7): a 100 m sill (b = 50 m) emplaced at 1150 °C in

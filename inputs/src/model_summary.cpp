@@ -23,16 +23,19 @@ double box_cell_volume(const Mesh& mesh, std::size_t c)
 
 /**
  * Bytes the core's main arrays take for a run, per cell and per node (from the members of
- * Mesh, ElementMatrices, ThermalModel, HeatOperator and the driver for 8-node hexahedra):
- * per cell: connectivity 64 + offsets 8 + type/region 5, stiffness 64·8 + offsets 8, nodal
- * volumes 64 + volume 8, cell slots 8·16, rock 4, flux scratch 64 → ~865;
- * per node: point 24, shares ~2·24, volume/source/capacity 24, slot offsets 16, E/T/rate and
- * up to four integrator stages 7·8 → ~168, plus 16 per stored snapshot (T and melt fraction).
+ * Mesh, ThermalModel, HeatOperator and the driver for 8-node hexahedra, about one cell per
+ * node; bench/README.md has the measured figures):
+ * per cell: connectivity 64 + offsets 8 + type/region 5, nodal volumes 64, cell slots 8·8,
+ * rock 4 → ~209;
+ * per node: point 24, shares ~24, volume/source 16, offsets 16, heat-operator edges ~6·13 + 25,
+ * E/T and the integrator's vectors 8·8 → ~247, plus 16 per stored snapshot (T and melt
+ * fraction). The peak comes while the operator is built: the element matrices then take
+ * 592 B per cell more (stiffness 64·8, offsets 8, nodal volumes 64, volume 8), counted here.
  * An estimate: allocator overhead and the viewer's copies are not counted.
  */
 double memory_estimate(std::size_t cells, std::size_t nodes, std::size_t snapshots)
 {
-  return 865.0 * double(cells) + (168.0 + 16.0 * double(snapshots)) * double(nodes);
+  return (209.0 + 592.0) * double(cells) + (247.0 + 16.0 * double(snapshots)) * double(nodes);
 }
 
 double stable_step(const Scenario& scenario, const BuiltModel& model)

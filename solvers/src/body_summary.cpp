@@ -197,7 +197,7 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
   const NodeHistory& history, const BodySummarySettings& settings)
 {
   const Mesh& mesh = model.mesh();
-  const ElementMatrices& em = model.elements();
+  const std::vector<double>& cell_node_volume = model.cell_node_volumes();
   const double T_ref = settings.reference_temperature;
   std::map<int, RegionSummary> by_region; // ascending region id
   std::map<int, double> melt_volume;
@@ -212,7 +212,7 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
     const auto nodes = mesh.nodes(c);
     for (std::size_t a = 0; a < nodes.size(); ++a)
     {
-      const double V = em.nodal_volume[mesh.cell_offsets[c] + a];
+      const double V = cell_node_volume[mesh.cell_offsets[c] + a];
       const double Ta = T[nodes[a]];
       row.volume += V;
       melt_volume[region] += V * melt_fraction(rock, Ta);

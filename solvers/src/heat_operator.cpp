@@ -140,96 +140,172 @@ HeatOperator::HeatOperator(const ThermalModel& model, std::vector<BoundaryCondit
     groups_.push_back(std::move(group));
   }
   fixed_.assign(fixed.begin(), fixed.end());
-  is_fixed_.assign(model.n_nodes(), 0);
+  node_kind_.assign(model.n_nodes(), kInterior);
+  for (const Group& g : groups_)
+    for (const NodeArea& na : g.nodes)
+      node_kind_[na.node] = kFluxFace;
   for (const auto& [node, T] : fixed_)
-    is_fixed_[node] = 1;
-  cell_flux_.resize(mesh.cell_nodes.size());
-  if (mesh.cell_nodes.size() > std::numeric_limits<std::uint32_t>::max())
-    throw std::invalid_argument("mesh too large for the heat operator: " +
-      std::to_string(mesh.cell_nodes.size()) + " cell-node entries (at most 2^32 - 1)");
-  gather_start_.assign(model.n_nodes() + 1, 0);
-  gather_.reserve(mesh.cell_nodes.size());
-  for (std::size_t i = 0; i < model.n_nodes(); ++i)
-  {
-    for (const CellSlot& slot : model.cells_of(i))
-      gather_.push_back(static_cast<std::uint32_t>(mesh.cell_offsets[slot.cell] + slot.local));
-    gather_start_[i + 1] = static_cast<std::int64_t>(gather_.size());
-  }
-  const ElementMatrices& em = model.elements();
-  row_abs_sum_.resize(mesh.cell_nodes.size());
-  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-  {
-    const std::size_t m = mesh.nodes(c).size();
-    for (std::size_t a = 0; a < m; ++a)
-    {
-      const double* row = em.stiffness.data() + em.stiffness_offsets[c] + a * m;
-      double row_sum = 0.0;
-      for (std::size_t b = 0; b < m; ++b)
-        row_sum += std::abs(row[b]);
-      row_abs_sum_[mesh.cell_offsets[c] + a] = row_sum;
-    }
-  }
+    node_kind_[node] = kHeld;
+  node_stiffness_.resize(model.n_nodes());
   refresh();
+}
+
+void HeatOperator::build_edges()
+{
+  const ThermalModel& model = *model_;
+  const Mesh& mesh = model.mesh();
+  // Computed again rather than kept: the edge weights are all the operator needs of it, and
+  // the full element matrices would be the largest array of the run (~500 B per node on hexes).
+  const ElementMatrices em = compute_element_matrices(mesh);
+  const std::size_t n = model.n_nodes();
+  if (model.rocks().size() > 256)
+    throw std::invalid_argument("heat operator: at most 256 rock types (" +
+      std::to_string(model.rocks().size()) + " given)");
+  fits_.clear();
+  for (const Rock& rock : model.rocks())
+    fits_.push_back(conductivity_fit(rock.conductivity));
+  edge_start_.assign(n + 1, 0);
+  edge_node_.clear();
+  edge_weight_.clear();
+  edge_rock_.clear();
+  struct Entry
+  {
+    std::int64_t node;
+    int rock;
+    double weight;
+  };
+  std::vector<Entry> row;
+  for (std::size_t i = 0; i < n; ++i)
+  {
+    // Cells in ascending order, then a stable sort: the weights of one (j, rock) pair are
+    // summed in ascending cell order from either end, so W_ij = W_ji exactly.
+    row.clear();
+    for (const CellSlot& slot : model.cells_of(i))
+    {
+      const auto nodes = mesh.nodes(slot.cell);
+      const std::size_t m = nodes.size();
+      const double* K =
+        em.stiffness.data() + em.stiffness_offsets[slot.cell] + slot.local * m;
+      for (std::size_t b = 0; b < m; ++b)
+        if (b != slot.local && K[b] != 0.0)
+          row.push_back({ nodes[b], model.cell_rock()[slot.cell], -K[b] });
+    }
+    std::stable_sort(row.begin(), row.end(), [](const Entry& x, const Entry& y) {
+      return x.node != y.node ? x.node < y.node : x.rock < y.rock;
+    });
+    for (std::size_t k = 0; k < row.size(); ++k)
+    {
+      if (k > 0 && row[k].node == row[k - 1].node && row[k].rock == row[k - 1].rock)
+      {
+        edge_weight_.back() += row[k].weight;
+        continue;
+      }
+      edge_node_.push_back(static_cast<std::uint32_t>(row[k].node));
+      edge_rock_.push_back(static_cast<std::uint8_t>(row[k].rock));
+      edge_weight_.push_back(row[k].weight);
+    }
+    if (edge_node_.size() > std::numeric_limits<std::uint32_t>::max())
+      throw std::invalid_argument("mesh too large for the heat operator: more than 2^32 - 1 "
+                                  "node-to-node couplings");
+    edge_start_[i + 1] = static_cast<std::uint32_t>(edge_node_.size());
+  }
 }
 
 void HeatOperator::refresh()
 {
   const ThermalModel& model = *model_;
+  if (model.n_nodes() > std::numeric_limits<std::uint32_t>::max())
+    throw std::invalid_argument("mesh too large for the heat operator: " +
+      std::to_string(model.n_nodes()) + " nodes (at most 2^32 - 1)");
   min_capacity_.assign(model.n_nodes(), 0.0);
+  interior_inverse_capacity_.assign(model.n_nodes(), 0.0);
+  source_total_ = 0.0; // sequential: one fixed summation order
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
+  {
     for (const NodeShare& s : model.shares(i))
       min_capacity_[i] += s.mass * min_heat_capacity(model.rocks()[s.rock], -100.0, 3000.0);
+    if (node_kind_[i] == kInterior && min_capacity_[i] > 0.0)
+      interior_inverse_capacity_[i] = 1.0 / min_capacity_[i];
+    if (node_kind_[i] != kHeld)
+      source_total_ += model.node_source(i);
+  }
+  build_edges();
 }
 
-void HeatOperator::rate(const std::vector<double>& T, std::vector<double>& dEdt,
-  PowerTally& tally, tbb::task_arena& arena) const
+double HeatOperator::bytes_per_node() const
+{
+  const double n = static_cast<double>(model_->n_nodes());
+  const double edges = static_cast<double>(edge_node_.size());
+  return (edges * (4 + 8 + 1) + (n + 1) * 4) / n +
+    8 /* min capacity */ + 8 /* its inverse */ + 1 /* kind */ + 8 /* stiffness scratch */;
+}
+
+template <bool Bound, bool Rate>
+double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std::size_t end) const
 {
   const ThermalModel& model = *model_;
-  const Mesh& mesh = model.mesh();
-  const ElementMatrices& em = model.elements();
-  const std::size_t n = model.n_nodes();
-  dEdt.resize(n);
-  arena.execute([&] {
-    // 1. Per cell: conductive heat into each of its nodes, −k_c K^c T^c.
-    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, mesh.n_cells(), kGrain / 8),
-      [&](const tbb::blocked_range<std::size_t>& r) {
-        double Tc[8];
-        for (std::size_t c = r.begin(); c != r.end(); ++c)
-        {
-          const auto nodes = mesh.nodes(c);
-          const std::size_t m = nodes.size();
-          double mean = 0.0;
-          for (std::size_t a = 0; a < m; ++a)
-            mean += (Tc[a] = T[nodes[a]]);
-          const double k = conductivity(model.rocks()[model.cell_rock()[c]], mean / m);
-          const double* K = em.stiffness.data() + em.stiffness_offsets[c];
-          double* out = cell_flux_.data() + mesh.cell_offsets[c];
-          for (std::size_t a = 0; a < m; ++a)
-          {
-            double s = 0.0;
-            for (std::size_t b = 0; b < m; ++b)
-              s += K[a * m + b] * Tc[b];
-            out[a] = -k * s;
-          }
-        }
-      });
-    // 2. Per node: gather in ascending cell order, add radiogenic heat.
-    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
-      [&](const tbb::blocked_range<std::size_t>& r) {
-        for (std::size_t i = r.begin(); i != r.end(); ++i)
-        {
-          double s = model.node_source(i);
-          for (std::int64_t k = gather_start_[i]; k < gather_start_[i + 1]; ++k)
-            s += cell_flux_[gather_[k]];
-          dEdt[i] = s;
-        }
-      });
+  const std::uint32_t* start = edge_start_.data();
+  const std::uint32_t* neighbour = edge_node_.data();
+  const double* weight = edge_weight_.data();
+  const std::uint8_t* rock = edge_rock_.data();
+  const ConductivityFit* fit = fits_.data();
+  double worst = 0.0;
+  for (std::size_t i = begin; i != end; ++i)
+  {
+    const double Ti = T[i];
+    double s = 0.0, g_sum = 0.0, g_abs = 0.0;
+    for (std::uint32_t k = start[i]; k < start[i + 1]; ++k)
+    {
+      const double Tj = T[neighbour[k]];
+      const double G = weight[k] * fit[rock[k]](0.5 * (Ti + Tj));
+      s += G * (Tj - Ti);
+      if constexpr (Bound)
+      {
+        g_sum += G;
+        g_abs += std::abs(G);
+      }
+    }
+    if constexpr (Rate)
+      dEdt[i] = s + model.node_source(i);
+    if constexpr (Bound)
+    {
+      const double stiffness = std::abs(g_sum) + g_abs; // |A_ii| + Σ_j |A_ij|
+      worst = std::max(worst, stiffness * interior_inverse_capacity_[i]);
+      if (node_kind_[i] == kFluxFace)
+        node_stiffness_[i] = stiffness;
+    }
+  }
+  return worst;
+}
+
+template <bool Bound, bool Rate>
+double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>& dEdt,
+  tbb::task_arena& arena) const
+{
+  const std::size_t n = model_->n_nodes();
+  if constexpr (Rate)
+    dEdt.resize(n);
+  // A max is exact under any partition, so the bound does not depend on the thread count.
+  return arena.execute([&] {
+    return tbb::parallel_reduce(
+      tbb::blocked_range<std::size_t>(0, n, kGrain), 0.0,
+      [&](const tbb::blocked_range<std::size_t>& r, double w) {
+        return std::max(w, sweep<Bound, Rate>(T.data(), dEdt.data(), r.begin(), r.end()));
+      },
+      [](double a, double b) { return std::max(a, b); });
   });
-  // 3. Boundary groups one after another (a node may sit in several); nodes unique per group.
+}
+
+double HeatOperator::conduct(const std::vector<double>& T, std::vector<double>& dEdt,
+  PowerTally& tally, tbb::task_arena& arena, bool bound) const
+{
+  const double worst =
+    bound ? sweep_all<true, true>(T, dEdt, arena) : sweep_all<false, true>(T, dEdt, arena);
+  // Boundary groups one after another (a node may sit in several); nodes unique per group.
   tally = {};
   for (const Group& g : groups_)
     for (const NodeArea& na : g.nodes)
-      if (!is_fixed_[na.node])
+      if (node_kind_[na.node] != kHeld)
       {
         const double q = na.area * face_flux(g.bc, na.emissivity, T[na.node]);
         dEdt[na.node] += q;
@@ -238,78 +314,47 @@ void HeatOperator::rate(const std::vector<double>& T, std::vector<double>& dEdt,
   // Heat through held nodes leaves (or enters) the body; book it, then hold the node.
   for (const auto& [node, value] : fixed_)
   {
-    tally.boundary -= dEdt[node] - model.node_source(node);
+    tally.boundary -= dEdt[node] - model_->node_source(node);
     dEdt[node] = 0.0;
   }
-  tally.source = arena.execute([&] {
-    return tbb::parallel_deterministic_reduce(
-      tbb::blocked_range<std::size_t>(0, n, kGrain), 0.0,
-      [&](const tbb::blocked_range<std::size_t>& r, double s) {
-        for (std::size_t i = r.begin(); i != r.end(); ++i)
-          if (!is_fixed_[i])
-            s += model.node_source(i);
-        return s;
-      },
-      std::plus<>());
-  });
+  tally.source = source_total_;
+  return bound ? stable_step_from(worst, T) : 0.0;
+}
+
+double HeatOperator::stable_step_from(double worst, const std::vector<double>& T) const
+{
+  for (const Group& g : groups_)
+    for (const NodeArea& na : g.nodes)
+      if (node_kind_[na.node] != kHeld)
+        node_stiffness_[na.node] += na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
+  for (const Group& g : groups_) // after all groups: a node's stiffness is complete
+    for (const NodeArea& na : g.nodes)
+      if (node_kind_[na.node] == kFluxFace && min_capacity_[na.node] > 0.0)
+        worst = std::max(worst, node_stiffness_[na.node] / min_capacity_[na.node]);
+  return worst > 0.0 ? 2.0 / worst : std::numeric_limits<double>::infinity();
+}
+
+void HeatOperator::rate(const std::vector<double>& T, std::vector<double>& dEdt,
+  PowerTally& tally, tbb::task_arena& arena) const
+{
+  conduct(T, dEdt, tally, arena, false);
+}
+
+double HeatOperator::rate_and_stable_step(const std::vector<double>& T,
+  std::vector<double>& dEdt, PowerTally& tally, tbb::task_arena& arena) const
+{
+  return conduct(T, dEdt, tally, arena, true);
 }
 
 double HeatOperator::stable_time_step(const std::vector<double>& T, tbb::task_arena& arena) const
 {
-  const ThermalModel& model = *model_;
-  const Mesh& mesh = model.mesh();
-  const std::size_t n = model.n_nodes();
-  std::vector<double>& stiffness = node_stiffness_; // Σ |A_ib| per node row [W/K]
-  stiffness.resize(n);
-  arena.execute([&] {
-    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, mesh.n_cells(), kGrain / 8),
-      [&](const tbb::blocked_range<std::size_t>& r) {
-        for (std::size_t c = r.begin(); c != r.end(); ++c)
-        {
-          const auto nodes = mesh.nodes(c);
-          double mean = 0.0;
-          for (std::int64_t node : nodes)
-            mean += T[node];
-          // k_c Σ_b |K^c_ab| per cell-node, into the rate's scratch (not in use here).
-          const double k = conductivity(model.rocks()[model.cell_rock()[c]], mean / nodes.size());
-          const std::int64_t start = mesh.cell_offsets[c];
-          for (std::size_t a = 0; a < nodes.size(); ++a)
-            cell_flux_[start + a] = k * row_abs_sum_[start + a];
-        }
-      });
-    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
-      [&](const tbb::blocked_range<std::size_t>& r) {
-        for (std::size_t i = r.begin(); i != r.end(); ++i)
-        {
-          double s = 0.0;
-          for (std::int64_t k = gather_start_[i]; k < gather_start_[i + 1]; ++k)
-            s += cell_flux_[gather_[k]];
-          stiffness[i] = s;
-        }
-      });
-  });
-  for (const Group& g : groups_)
-    for (const NodeArea& na : g.nodes)
-      stiffness[na.node] += na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
-  const double lambda = arena.execute([&] { // max is exact under any partition
-    return tbb::parallel_reduce(
-      tbb::blocked_range<std::size_t>(0, n, kGrain), 0.0,
-      [&](const tbb::blocked_range<std::size_t>& r, double worst) {
-        for (std::size_t i = r.begin(); i != r.end(); ++i)
-          if (!is_fixed_[i] && min_capacity_[i] > 0.0)
-            worst = std::max(worst, stiffness[i] / min_capacity_[i]);
-        return worst;
-      },
-      [](double a, double b) { return std::max(a, b); });
-  });
-  return lambda > 0.0 ? 2.0 / lambda : std::numeric_limits<double>::infinity();
+  std::vector<double> unused;
+  return stable_step_from(sweep_all<true, false>(T, unused, arena), T);
 }
 
 std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
 {
   const ThermalModel& model = *model_;
-  const Mesh& mesh = model.mesh();
-  const ElementMatrices& em = model.elements();
   const std::size_t n = model.n_nodes();
   bool anchored = !fixed_.empty();
   for (const Group& g : groups_)
@@ -329,38 +374,30 @@ std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
   std::vector<std::int64_t> unknown(n, -1);
   std::int64_t m = 0;
   for (std::size_t i = 0; i < n; ++i)
-    if (!is_fixed_[i] && model.node_volume(i) > 0.0)
+    if (node_kind_[i] != kHeld && model.node_volume(i) > 0.0)
       unknown[i] = m++;
   for (int iteration = 0; iteration < 100; ++iteration)
   {
     std::vector<Eigen::Triplet<double>> entries;
     Eigen::VectorXd rhs = Eigen::VectorXd::Zero(m);
     for (std::size_t i = 0; i < n; ++i)
-      if (unknown[i] >= 0)
-        rhs[unknown[i]] += model.node_source(i);
-    for (std::size_t c = 0; c < mesh.n_cells(); ++c)
     {
-      const auto nodes = mesh.nodes(c);
-      const std::size_t p = nodes.size();
-      double mean = 0.0;
-      for (std::int64_t node : nodes)
-        mean += T[node];
-      const double k = conductivity(model.rocks()[model.cell_rock()[c]], mean / p);
-      const double* K = em.stiffness.data() + em.stiffness_offsets[c];
-      for (std::size_t a = 0; a < p; ++a)
+      const std::int64_t row = unknown[i];
+      if (row < 0)
+        continue;
+      rhs[row] += model.node_source(i);
+      double diagonal = 0.0;
+      for (std::uint32_t k = edge_start_[i]; k < edge_start_[i + 1]; ++k)
       {
-        const std::int64_t row = unknown[nodes[a]];
-        if (row < 0)
-          continue;
-        for (std::size_t b = 0; b < p; ++b)
-        {
-          const std::int64_t col = unknown[nodes[b]];
-          if (col >= 0)
-            entries.emplace_back(row, col, k * K[a * p + b]);
-          else
-            rhs[row] -= k * K[a * p + b] * T[nodes[b]];
-        }
+        const std::uint32_t j = edge_node_[k];
+        const double G = edge_weight_[k] * fits_[edge_rock_[k]](0.5 * (T[i] + T[j]));
+        diagonal += G;
+        if (unknown[j] >= 0)
+          entries.emplace_back(row, unknown[j], -G);
+        else
+          rhs[row] += G * T[j];
       }
+      entries.emplace_back(row, row, diagonal);
     }
     for (const Group& g : groups_)
       for (const NodeArea& na : g.nodes)

@@ -20,6 +20,13 @@ double b(int j)
 {
   return j <= 2 ? 1.0 / 3.0 : double(j * j + j - 2) / (2.0 * j * (j + 1));
 }
+
+// Each stage recovers T(E) in the same pass that updates E; held nodes then get their value.
+void hold_fixed(const HeatOperator& op, std::vector<double>& T)
+{
+  for (const auto& [node, value] : op.fixed_nodes())
+    T[node] = value;
+}
 } // namespace
 
 Rkl2::Rkl2(double tolerance, int max_stages)
@@ -68,8 +75,7 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
 {
   const std::size_t n = E.size();
   PowerTally p0;
-  op.rate(T, rate0_, p0, arena);
-  const double dt_fe = safety * op.stable_time_step(T, arena);
+  const double dt_fe = safety * op.rate_and_stable_step(T, rate0_, p0, arena);
   // Accuracy control (common practice for explicit step control, no source): the heating
   // rate changed by ΔR_i over the last super-step τ_prev; τ_prev·|ΔR_i|/C_i [K] measures the
   // second-order term the step had to follow, and scales as τ². Aim it at the tolerance.
@@ -142,12 +148,13 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
                           {
                             d_prev_[i] = mu1 * tau * rate0_[i];
                             E[i] = y0_[i] + d_prev_[i];
+                            T[i] = model.temperature(i, E[i], T[i]);
                           }
                         });
     });
+  hold_fixed(op, T);
   for (int j = 2; j <= s; ++j)
   {
-    update_temperatures(model, op, E, T, arena);
     PowerTally p;
     op.rate(T, rate_, p, arena);
     const double mu = (2.0 * j - 1.0) / j * b(j) / b(j - 1);
@@ -168,9 +175,11 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
                                                tau * (mu_t * rate_[i] + gamma_t * rate0_[i]);
                               d_prev2_[i] = d;
                               E[i] = y0_[i] + d;
+                              T[i] = model.temperature(i, E[i], T[i]);
                             }
                           });
       });
+    hold_fixed(op, T);
     std::swap(d_prev_, d_prev2_);
     const double boundary =
       mu * boundary_prev + nu * boundary_prev2 + tau * (mu_t * p.boundary + gamma_t * p0.boundary);
@@ -181,7 +190,6 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
     boundary_prev = boundary;
     source_prev = source;
   }
-  update_temperatures(model, op, E, T, arena);
   std::swap(rate0_prev_, rate0_); // M(Y_0) of this super-step, for the next one's control
   return { tau, { boundary_prev, source_prev }, static_cast<std::size_t>(s) };
 }

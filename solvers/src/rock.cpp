@@ -62,22 +62,14 @@ VsCoefficients vosteen_schellschmidt(const Conductivity& law)
 constexpr double kWaplesTmax = 1000.0;
 constexpr double kWaplesTmin = -100.0; // held below too, so h stays monotone
 
+constexpr double kWaples[4] = { 0.716, 0.00172, -2.13e-6, 8.95e-10 }; // cN = Σ kWaples[n] Tⁿ
+
 double waples_normalised(double T)
 {
-  return ((8.95e-10 * T - 2.13e-6) * T + 0.00172) * T + 0.716;
+  return ((kWaples[3] * T + kWaples[2]) * T + kWaples[1]) * T + kWaples[0];
 }
 
-double waples_normalised_integral(double T) // ∫_0^T cN dT'
-{
-  return (((8.95e-10 / 4.0 * T - 2.13e-6 / 3.0) * T + 0.00172 / 2.0) * T + 0.716) * T;
-}
 
-double melt_slope(const Rock& rock, double T)
-{
-  if (rock.latent_heat <= 0.0 || T <= rock.solidus || T >= rock.liquidus)
-    return 0.0;
-  return 1.0 / (rock.liquidus - rock.solidus);
-}
 
 } // namespace
 
@@ -116,68 +108,79 @@ void validate(const Rock& rock)
   require_positive(rock, "conductivity floor k_min", rock.conductivity.k_min);
 }
 
-double conductivity(const Rock& rock, double T)
+ConductivityFit conductivity_fit(const Conductivity& law)
 {
-  const Conductivity& law = rock.conductivity;
   switch (law.law)
   {
     case Conductivity::Law::Constant:
-      return law.k_ref;
+      return { law.k_ref, 0.0, 1.0, 0.0, 0.0 }; // no floor: a constant k is taken as given
     case Conductivity::Law::VosteenSchellschmidt:
     {
-      const auto [k0, beta] = vosteen_schellschmidt(law);
-      const double denominator = 0.99 + std::max(T, -100.0) * beta;
-      return denominator > 0.0 ? std::max(k0 / denominator, law.k_min) : law.k_min;
+      const auto [k0, beta] = vosteen_schellschmidt(law); // k = k0 / (0.99 + β T)
+      return { 0.0, k0, 0.99, beta, law.k_min };
     }
-    case Conductivity::Law::ZothHaenel:
-      return std::max(law.a + law.b / (350.0 + std::max(T, -100.0)), law.k_min);
+    case Conductivity::Law::ZothHaenel: // k = A + B / (350 + T)
+      return { law.a, law.b, 350.0, 1.0, law.k_min };
   }
-  return law.k_ref;
+  return { law.k_ref, 0.0, 1.0, 0.0, 0.0 };
+}
+
+double conductivity(const Rock& rock, double T)
+{
+  return conductivity_fit(rock.conductivity)(T);
+}
+
+EnthalpyFit enthalpy_fit(const Rock& rock)
+{
+  EnthalpyFit fit;
+  const HeatCapacity& law = rock.heat_capacity;
+  if (law.law == HeatCapacity::Law::Constant)
+    fit.a0 = law.c_ref;
+  else
+  {
+    // h = scale ∫_0^T cN dT' with cN = c0 + c1 T + c2 T² + c3 T³ (Waples & Waples above).
+    const double scale = law.c_ref / waples_normalised(20.0);
+    fit.a0 = scale * kWaples[0];
+    fit.a1 = scale * kWaples[1] / 2.0;
+    fit.a2 = scale * kWaples[2] / 3.0;
+    fit.a3 = scale * kWaples[3] / 4.0;
+    fit.t_lo = kWaplesTmin;
+    fit.t_hi = kWaplesTmax;
+  }
+  if (rock.latent_heat > 0.0)
+  {
+    fit.latent = rock.latent_heat;
+    fit.solidus = rock.solidus;
+    fit.inverse_interval = 1.0 / (rock.liquidus - rock.solidus);
+  }
+  return fit;
 }
 
 double heat_capacity(const Rock& rock, double T)
 {
-  const HeatCapacity& law = rock.heat_capacity;
-  if (law.law == HeatCapacity::Law::Constant)
-    return law.c_ref;
-  const double Tc = std::clamp(T, kWaplesTmin, kWaplesTmax);
-  return law.c_ref * waples_normalised(Tc) / waples_normalised(20.0);
+  return enthalpy_fit(rock).sensible_capacity(T);
 }
 
 double sensible_enthalpy(const Rock& rock, double T)
 {
-  const HeatCapacity& law = rock.heat_capacity;
-  if (law.law == HeatCapacity::Law::Constant)
-    return law.c_ref * T;
-  const double scale = law.c_ref / waples_normalised(20.0);
-  if (T < kWaplesTmin)
-    return scale * (waples_normalised_integral(kWaplesTmin) +
-                     waples_normalised(kWaplesTmin) * (T - kWaplesTmin));
-  if (T <= kWaplesTmax)
-    return scale * waples_normalised_integral(T);
-  return scale * (waples_normalised_integral(kWaplesTmax) +
-                   waples_normalised(kWaplesTmax) * (T - kWaplesTmax));
+  EnthalpyFit fit = enthalpy_fit(rock);
+  fit.latent = 0.0;
+  return fit.enthalpy(T);
 }
 
 double melt_fraction(const Rock& rock, double T)
 {
-  if (rock.latent_heat <= 0.0)
-    return 0.0;
-  if (T <= rock.solidus)
-    return 0.0;
-  if (T >= rock.liquidus)
-    return 1.0;
-  return (T - rock.solidus) / (rock.liquidus - rock.solidus);
+  return enthalpy_fit(rock).melt_fraction(T);
 }
 
 double specific_enthalpy(const Rock& rock, double T)
 {
-  return sensible_enthalpy(rock, T) + rock.latent_heat * melt_fraction(rock, T);
+  return enthalpy_fit(rock).enthalpy(T);
 }
 
 double apparent_heat_capacity(const Rock& rock, double T)
 {
-  return heat_capacity(rock, T) + rock.latent_heat * melt_slope(rock, T);
+  return enthalpy_fit(rock).capacity(T);
 }
 
 double min_heat_capacity(const Rock& rock, double T_lo, double T_hi)

@@ -72,12 +72,12 @@ double emplace(ThermalModel& model, const HeatOperator& op, const Emplacement& e
       "emplacement of region " + std::to_string(ev.region) + ": no cell has this region id");
   model.set_cell_rock(cells, ev.rock);
   std::vector<double> intruded(model.n_nodes(), 0.0); // intrusion volume per node [m³]
-  const ElementMatrices& em = model.elements();
+  const std::vector<double>& volume = model.cell_node_volumes();
   for (std::int64_t c : cells)
   {
     const auto nodes = mesh.nodes(c);
     for (std::size_t a = 0; a < nodes.size(); ++a)
-      intruded[nodes[a]] += em.nodal_volume[mesh.cell_offsets[c] + a];
+      intruded[nodes[a]] += volume[mesh.cell_offsets[c] + a];
   }
   const Rock& rock = model.rocks()[ev.rock];
   std::vector<char> fixed(model.n_nodes(), 0);
@@ -126,19 +126,22 @@ Integrator::Step ForwardEuler::advance(const ThermalModel& model, const HeatOper
   double dt_max, double safety, std::vector<double>& E, std::vector<double>& T,
   tbb::task_arena& arena)
 {
-  // Split the interval evenly rather than leave a sliver at its end.
-  const double dt_stable = safety * op.stable_time_step(T, arena);
-  const double dt = dt_max / std::max(1.0, std::ceil(dt_max / dt_stable * (1.0 - 1e-12)));
   PowerTally power;
-  op.rate(T, rate_, power, arena);
-  arena.execute([&] {
+  const double dt_stable = safety * op.rate_and_stable_step(T, rate_, power, arena);
+  // Split the interval evenly rather than leave a sliver at its end.
+  const double dt = dt_max / std::max(1.0, std::ceil(dt_max / dt_stable * (1.0 - 1e-12)));
+  arena.execute([&] { // update and T(E) in one pass over the nodes
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, E.size(), kGrain),
       [&](const tbb::blocked_range<std::size_t>& r) {
         for (std::size_t i = r.begin(); i != r.end(); ++i)
+        {
           E[i] += dt * rate_[i];
+          T[i] = model.temperature(i, E[i], T[i]);
+        }
       });
   });
-  update_temperatures(model, op, E, T, arena);
+  for (const auto& [node, value] : op.fixed_nodes())
+    T[node] = value;
   return { dt, { power.boundary * dt, power.source * dt }, 1 };
 }
 

@@ -16,7 +16,10 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
   if (rocks_.empty())
     throw PropertyError("no rock types given");
   for (const Rock& rock : rocks_)
+  {
     validate(rock);
+    enthalpy_.push_back(enthalpy_fit(rock));
+  }
   if (cell_rock_.size() != mesh.n_cells())
     throw PropertyError("rock assignment has " + std::to_string(cell_rock_.size()) +
       " entries for " + std::to_string(mesh.n_cells()) + " cells");
@@ -25,7 +28,10 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
       throw PropertyError("cell " + std::to_string(c) + " (region " +
         std::to_string(mesh.cell_region[c]) + ") has no rock type");
   validate_mesh(mesh);
-  elements_ = compute_element_matrices(mesh);
+  if (mesh.n_cells() > std::numeric_limits<std::uint32_t>::max())
+    throw PropertyError("mesh too large: " + std::to_string(mesh.n_cells()) +
+      " cells (at most 2^32 - 1)");
+  cell_node_volume_ = compute_element_matrices(mesh).nodal_volume;
 
   // node → (cell, local index), cells ascending: the fixed gather order behind determinism.
   const std::size_t n = mesh.n_points();
@@ -40,7 +46,7 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
   {
     const auto nodes = mesh.nodes(c);
     for (std::size_t a = 0; a < nodes.size(); ++a)
-      slots_[fill[nodes[a]]++] = { static_cast<std::int64_t>(c), static_cast<int>(a) };
+      slots_[fill[nodes[a]]++] = { static_cast<std::uint32_t>(c), static_cast<std::uint32_t>(a) };
   }
   build_shares();
 }
@@ -61,7 +67,7 @@ void ThermalModel::build_shares()
     {
       const int rock = cell_rock_[slot.cell];
       const double volume =
-        elements_.nodal_volume[mesh.cell_offsets[slot.cell] + slot.local];
+        cell_node_volume_[mesh.cell_offsets[slot.cell] + slot.local];
       auto it = std::find_if(
         local.begin(), local.end(), [rock](const NodeShare& s) { return s.rock == rock; });
       if (it == local.end())
@@ -95,7 +101,7 @@ double ThermalModel::energy(std::size_t node, double T) const
 {
   double E = 0.0;
   for (const NodeShare& s : shares(node))
-    E += s.mass * specific_enthalpy(rocks_[s.rock], T);
+    E += s.mass * enthalpy_[s.rock].enthalpy(T);
   return E;
 }
 
@@ -103,7 +109,7 @@ double ThermalModel::capacity(std::size_t node, double T) const
 {
   double C = 0.0;
   for (const NodeShare& s : shares(node))
-    C += s.mass * apparent_heat_capacity(rocks_[s.rock], T);
+    C += s.mass * enthalpy_[s.rock].capacity(T);
   return C;
 }
 
@@ -112,41 +118,34 @@ double ThermalModel::melt_fraction(std::size_t node, double T) const
   double melt = 0.0, volume = 0.0;
   for (const NodeShare& s : shares(node))
   {
-    melt += s.volume * ember::melt_fraction(rocks_[s.rock], T);
+    melt += s.volume * enthalpy_[s.rock].melt_fraction(T);
     volume += s.volume;
   }
   return volume > 0.0 ? melt / volume : 0.0;
 }
 
-double ThermalModel::temperature(std::size_t node, double E, double T_guess) const
+namespace
 {
-  const auto node_shares = shares(node);
-  if (node_shares.empty())
-    return T_guess; // unreferenced point: no control volume, keeps its value
-  // Fast path: one rock without latent heat and constant c is linear in T.
-  if (node_shares.size() == 1)
-  {
-    const Rock& rock = rocks_[node_shares[0].rock];
-    if (rock.latent_heat == 0.0 && rock.heat_capacity.law == HeatCapacity::Law::Constant)
-      return E / (node_shares[0].mass * rock.heat_capacity.c_ref);
-  }
-  if (!std::isfinite(E))
-    return E;
-  // Newton from the guess (a step's change is small: two or three iterations), with a
-  // bracket built from the iterates themselves: E_i is strictly increasing and dE/dT > 0, so
-  // each Newton step heads for the side not yet seen and never leaves the bracket before
-  // both sides are known. Once they are, any step that leaves it is replaced by bisection
-  // (the kinks at solidus and liquidus make plain Newton cycle).
+// Solves E(T) = E_target for a strictly increasing E with derivative C = dE/dT > 0, where
+// eval(T) returns {E(T), C(T)}. Newton from the guess (a step's change is small: two or three
+// iterations), with a bracket built from the iterates themselves: each Newton step heads for
+// the side not yet seen and never leaves the bracket before both sides are known. Once they
+// are, any step that leaves it is replaced by bisection (the kinks at solidus and liquidus
+// make plain Newton cycle).
+template <class Eval>
+double invert(const Eval& eval, double E_target, double T_guess)
+{
   double lo = -std::numeric_limits<double>::infinity();
   double hi = std::numeric_limits<double>::infinity();
   double T = T_guess;
   for (int iteration = 0; iteration < 200; ++iteration)
   {
-    const double residual = energy(node, T) - E;
+    const auto [E, C] = eval(T);
+    const double residual = E - E_target;
     if (residual == 0.0)
       return T;
     (residual > 0.0 ? hi : lo) = T;
-    const double newton = T - residual / capacity(node, T);
+    const double newton = T - residual / C;
     if (!(newton > lo && newton < hi) && !(std::isfinite(lo) && std::isfinite(hi)))
       return T; // correction below round-off (newton == T) before both sides are known
     const double next = (newton > lo && newton < hi) ? newton : 0.5 * (lo + hi);
@@ -155,6 +154,41 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess) con
     T = next;
   }
   return T;
+}
+
+struct EnergyAndCapacity
+{
+  double E, C;
+};
+} // namespace
+
+double ThermalModel::temperature(std::size_t node, double E, double T_guess) const
+{
+  const auto node_shares = shares(node);
+  if (node_shares.empty())
+    return T_guess; // unreferenced point: no control volume, keeps its value
+  if (!std::isfinite(E))
+    return E;
+  if (node_shares.size() == 1) // most nodes: one rock, E/m = h(T)
+  {
+    const EnthalpyFit& fit = enthalpy_[node_shares[0].rock];
+    const double h = E / node_shares[0].mass;
+    if (fit.latent == 0.0 && fit.a1 == 0.0 && fit.a2 == 0.0 && fit.a3 == 0.0)
+      return h / fit.a0; // constant c, no latent heat: linear
+    return invert([&fit](double T) { return EnergyAndCapacity{ fit.enthalpy(T), fit.capacity(T) }; },
+      h, T_guess);
+  }
+  return invert(
+    [&](double T) {
+      EnergyAndCapacity ec{ 0.0, 0.0 };
+      for (const NodeShare& s : node_shares)
+      {
+        ec.E += s.mass * enthalpy_[s.rock].enthalpy(T);
+        ec.C += s.mass * enthalpy_[s.rock].capacity(T);
+      }
+      return ec;
+    },
+    E, T_guess);
 }
 
 void ThermalModel::set_cell_rock(const std::vector<std::int64_t>& cells, int rock)

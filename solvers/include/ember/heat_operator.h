@@ -2,9 +2,15 @@
  * @file heat_operator.h
  * @brief Nodal enthalpy balance dE_i/dt = conduction + sources + boundary fluxes.
  *
- *   dE_i/dt = − Σ_c k_c(T̄_c) Σ_b K^c_ib T_b  +  Σ_c V_ci A_c  +  Σ_f ∫_f N_i q_f dA
+ *   dE_i/dt = Σ_j G_ij (T_j − T_i)  +  Σ_c V_ci A_c  +  Σ_f ∫_f N_i q_f dA
  *
- * k_c is evaluated at the cell's mean nodal temperature each call. Boundary fluxes q_f (into
+ * Conduction runs over the mesh edges. Element stiffness rows sum to zero, so a cell's
+ * −k Σ_b K^c_ab T_b equals Σ_{b≠a} k (−K^c_ab)(T_b − T_a): node i exchanges heat with each
+ * node j it shares a cell with through the conductance G_ij = Σ_r k_r(½(T_i + T_j)) W^r_ij,
+ * where W^r_ij = Σ (−K^c_ij) over the cells of rock r holding that edge [m]. With constant
+ * k this is exactly the finite-element operator; with k(T), k is taken at the edge's mean
+ * temperature (not the cell's), per rock, so material contrasts stay sharp. G_ij = G_ji
+ * bit for bit, so every exchange conserves heat. Boundary fluxes q_f (into
  * the body, W/m²) per surface group: radiation −εσ(T⁴ − T_sky⁴) (T in K), convection
  * −h(T − T_fluid), both, a prescribed heat flow, or insulated. Fixed-temperature nodes are
  * held; the heat they pass is booked as boundary heat. Parallel loops gather per node in a
@@ -16,6 +22,7 @@
 
 #include <oneapi/tbb/task_arena.h>
 
+#include <cstdint>
 #include <vector>
 
 namespace ember
@@ -66,18 +73,24 @@ public:
   void rate(const std::vector<double>& T, std::vector<double>& dEdt, PowerTally& tally,
     tbb::task_arena& arena) const;
 
+  /// rate() and stable_time_step() for the same T in one pass over the edges; returns the
+  /// stable step [s].
+  double rate_and_stable_step(const std::vector<double>& T, std::vector<double>& dEdt,
+    PowerTally& tally, tbb::task_arena& arena) const;
+
   /**
    * Forward-Euler stable step [s] for the current T: 2 / λ with λ a Gershgorin bound of the
-   * linearised operator (conduction Σ_b k_c|K_ib| plus 4εσT³A and hA on boundary nodes) over
+   * linearised operator (conduction |Σ_j G_ij| + Σ_j |G_ij|, plus 4εσT³A and hA on boundary
+   * nodes) over
    * the smallest sensible capacity of each node. Latent heat only raises capacity, so the
    * bound stays safe across a phase change.
    */
   double stable_time_step(const std::vector<double>& T, tbb::task_arena& arena) const;
 
   /**
-   * Steady conductive state: solves Σ_c k_c K^c T = sources + boundary heat (Eigen sparse
-   * Cholesky, LDLᵀ), with fixed-temperature nodes held and convection included; Picard
-   * iterations on k(T) from T_guess until max|ΔT| < 1e-9 K. Needs at least one
+   * Steady conductive state of this operator: solves Σ_j G_ij(T) (T_i − T_j) = sources +
+   * boundary heat (conjugate gradients), with fixed-temperature nodes held and convection
+   * included; Picard iterations on k(T) from T_guess until max|ΔT| < 1e-9 K. Needs at least one
    * fixed-temperature or convection boundary; radiation boundaries are rejected (non-linear).
    */
   std::vector<double> steady_state(std::vector<double> T_guess) const;
@@ -86,6 +99,11 @@ public:
   const std::vector<std::pair<std::int64_t, double>>& fixed_nodes() const { return fixed_; }
   /// Rebuild node-dependent data after the model's rock assignment changed.
   void refresh();
+
+  /// Directed edge entries (node pairs sharing a cell, per rock) over all nodes.
+  std::size_t edge_entries() const { return edge_node_.size(); }
+  /// Bytes this operator keeps per node (edges, capacities, flags; boundary groups apart).
+  double bytes_per_node() const;
 
 private:
   struct NodeArea
@@ -100,22 +118,43 @@ private:
     std::vector<NodeArea> nodes; ///< unique nodes, ascending
   };
 
+  // Conduction kernel over nodes [begin, end): with Rate writes dEdt (sources included);
+  // with Bound returns the largest Gershgorin rate λ_i = Σ_b |A_ib| / C_i over the interior
+  // nodes and leaves Σ_b |A_ib| of flux-boundary nodes in node_stiffness_ for the group pass.
+  template <bool Bound, bool Rate>
+  double sweep(const double* T, double* dEdt, std::size_t begin, std::size_t end) const;
+  template <bool Bound, bool Rate>
+  double sweep_all(const std::vector<double>& T, std::vector<double>& dEdt,
+    tbb::task_arena& arena) const;
+  double conduct(const std::vector<double>& T, std::vector<double>& dEdt, PowerTally& tally,
+    tbb::task_arena& arena, bool bound) const;
+  /// 2/λ from the interior nodes' largest λ and the flux-boundary nodes (adds their faces).
+  double stable_step_from(double interior_worst, const std::vector<double>& T) const;
+  void build_edges();
+
+  enum NodeKind : std::uint8_t
+  {
+    kInterior = 0,
+    kHeld = 1,     ///< fixed temperature
+    kFluxFace = 2  ///< on a radiation / convection / heat-flow boundary group
+  };
+
   const ThermalModel* model_;
   std::vector<Group> groups_;
   std::vector<std::pair<std::int64_t, double>> fixed_;
-  std::vector<char> is_fixed_;
+  std::vector<std::uint8_t> node_kind_;
   std::vector<double> min_capacity_; ///< per node, J/K, sensible heat only
-  /// Σ_b |K^c_ab| per cell-node (aligned with cell_nodes): the geometric part of the
-  /// Gershgorin bound, fixed by the mesh, so the stable step reads 8 bytes per cell-node
-  /// instead of the element matrix row.
-  std::vector<double> row_abs_sum_;
-  /// Node i's cell-node entries (positions in cell_nodes) in ascending cell order, at
-  /// gather_[gather_start_[i]] .. gather_[gather_start_[i+1]-1]: the fixed gather order
-  /// behind determinism, flattened so the gather reads 4 bytes per entry and no cell offsets.
-  std::vector<std::int64_t> gather_start_;
-  std::vector<std::uint32_t> gather_;
-  mutable std::vector<double> cell_flux_; ///< per cell-node scratch, aligned with cell_nodes
-  mutable std::vector<double> node_stiffness_; ///< per node scratch of the stable step [W/K]
+  /// 1/min_capacity_ of interior nodes, 0 elsewhere: the sweep's bound multiplies, no branch.
+  std::vector<double> interior_inverse_capacity_;
+  double source_total_ = 0.0;        ///< Σ radiogenic heat of the free nodes [W]
+  /// Node i's edges at [edge_start_[i], edge_start_[i+1]), sorted by (neighbour, rock): the
+  /// fixed summation order behind thread-count independence.
+  std::vector<std::uint32_t> edge_start_;
+  std::vector<std::uint32_t> edge_node_;
+  std::vector<double> edge_weight_;      ///< W^r_ij [m]
+  std::vector<std::uint8_t> edge_rock_;  ///< r
+  std::vector<ConductivityFit> fits_;    ///< per rock
+  mutable std::vector<double> node_stiffness_; ///< Σ_b |A_ib| of flux-boundary nodes [W/K]
 };
 
 } // namespace ember

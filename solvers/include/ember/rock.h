@@ -67,6 +67,63 @@ struct Rock
 /// Throws PropertyError naming the rock and the property for NaN/negative/out-of-range values.
 void validate(const Rock& rock);
 
+/**
+ * The three conductivity laws in one form, k(T) = max(k_floor, p + q / (r + s·max(T, −100))),
+ * with the law's constants worked out once (Vosteen & Schellschmidt's k0 needs a square root).
+ * A non-positive denominator gives k_floor. The heat operator evaluates k on every mesh edge
+ * of every step: one division, no branch on the law.
+ */
+struct ConductivityFit
+{
+  double p = 0.0, q = 0.0, r = 1.0, s = 0.0;
+  double k_floor = 0.0;
+  double operator()(double T) const
+  {
+    const double d = r + s * (T > -100.0 ? T : -100.0);
+    const double k = p + q / d;
+    return d > 0.0 ? (k > k_floor ? k : k_floor) : k_floor;
+  }
+};
+ConductivityFit conductivity_fit(const Conductivity& law);
+
+/**
+ * Specific enthalpy h(T) and apparent heat capacity dh/dT of one rock with its constants
+ * worked out once; the enthalpy functions below and the solver's T(E) both use it.
+ *   sensible: T (a0 + T (a1 + T (a2 + T a3))) on [t_lo, t_hi], continued linearly outside
+ *             (a constant c is a0 = c on an unbounded range; Waples & Waples is the quartic)
+ *   latent:   L · clamp((T − solidus) / (liquidus − solidus), 0, 1)
+ */
+struct EnthalpyFit
+{
+  double a0 = 0.0, a1 = 0.0, a2 = 0.0, a3 = 0.0;
+  double t_lo = -1e300, t_hi = 1e300;
+  double latent = 0.0, solidus = 0.0, inverse_interval = 0.0;
+
+  double sensible_capacity(double T) const
+  {
+    const double t = T < t_lo ? t_lo : (T > t_hi ? t_hi : T);
+    return a0 + t * (2.0 * a1 + t * (3.0 * a2 + t * 4.0 * a3));
+  }
+  double melt_fraction(double T) const
+  {
+    const double f = (T - solidus) * inverse_interval;
+    return f < 0.0 ? 0.0 : (f > 1.0 ? 1.0 : f);
+  }
+  double enthalpy(double T) const
+  {
+    const double t = T < t_lo ? t_lo : (T > t_hi ? t_hi : T);
+    const double h = t * (a0 + t * (a1 + t * (a2 + t * a3)));
+    return h + (T - t) * sensible_capacity(t) + latent * melt_fraction(T);
+  }
+  /// dh/dT; inside the melting interval the latent term L/(liquidus − solidus) is added.
+  double capacity(double T) const
+  {
+    const double f = (T - solidus) * inverse_interval;
+    return sensible_capacity(T) + (f > 0.0 && f < 1.0 ? latent * inverse_interval : 0.0);
+  }
+};
+EnthalpyFit enthalpy_fit(const Rock& rock);
+
 double conductivity(const Rock& rock, double T);      ///< [W/(m·K)]
 double heat_capacity(const Rock& rock, double T);     ///< sensible c(T) [J/(kg·K)]
 double melt_fraction(const Rock& rock, double T);     ///< linear between solidus and liquidus

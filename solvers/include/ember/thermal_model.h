@@ -31,8 +31,8 @@ struct NodeShare
 /// Where a node appears in a cell: the cell and the node's local index in it.
 struct CellSlot
 {
-  std::int64_t cell;
-  int local;
+  std::uint32_t cell; ///< meshes are limited to 2^32 − 1 cells (checked)
+  std::uint32_t local;
 };
 
 class ThermalModel
@@ -42,7 +42,9 @@ public:
   ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vector<int> cell_rock);
 
   const Mesh& mesh() const { return *mesh_; }
-  const ElementMatrices& elements() const { return elements_; }
+  /// ∫ N_a dV of each cell's nodes [m³], aligned with Mesh::cell_nodes. (The element
+  /// stiffness is not kept: the heat operator folds it into its edge weights.)
+  const std::vector<double>& cell_node_volumes() const { return cell_node_volume_; }
   const std::vector<Rock>& rocks() const { return rocks_; }
   const std::vector<int>& cell_rock() const { return cell_rock_; }
   std::size_t n_nodes() const { return mesh_->n_points(); }
@@ -74,8 +76,9 @@ private:
   void build_shares();
 
   const Mesh* mesh_;
-  ElementMatrices elements_;
+  std::vector<double> cell_node_volume_;
   std::vector<Rock> rocks_;
+  std::vector<EnthalpyFit> enthalpy_; ///< per rock
   std::vector<int> cell_rock_;
   std::vector<std::int64_t> slot_offsets_;
   std::vector<CellSlot> slots_;
