@@ -3,6 +3,7 @@
 #include "verification_cases.h"
 
 #include <gtest/gtest.h>
+#include <oneapi/tbb/task_arena.h>
 
 #include <algorithm>
 
@@ -188,4 +189,50 @@ TEST(Verification, SteadyGeothermWithHeatProduction)
   // Without an anchoring boundary no steady state exists: a clear error, not garbage.
   HeatOperator floating(model, { base });
   EXPECT_THROW(floating.steady_state(initial_temperatures(mesh, {})), std::invalid_argument);
+}
+
+// Steady geotherm with temperature-dependent conductivity, no heat production: the Kirchhoff
+// transform ∫k(T)dT = q0 z gives, for the Vosteen & Schellschmidt form k = k0/(0.99 + βT),
+// T(z) = [(0.99 + βT0) exp(β q0 z/k0) − 0.99]/β (verification.md §7(d), derived there and checked
+// against ODE integration; tabulated for a = 0.0030, b = 0.0042, k0 = 3.0, q0 = 60 mW/m²,
+// T0 = 10 °C). Tolerance 0.1 % (verification.md §7). Then the transient operator must hold this
+// state: the heat operator's own steady state has no residual rate.
+TEST(Verification, SteadyGeothermWithTemperatureDependentConductivity)
+{
+  const double q0 = 0.060, T0 = 10, depth = 20e3, dz = 250;
+  const int cells = static_cast<int>(depth / dz);
+  Mesh mesh = column(depth, cells, dz, false);
+  Rock crust = simple_rock("crust", 3.0, 2700, 1000);
+  crust.conductivity.law = Conductivity::Law::VosteenSchellschmidt;
+  crust.conductivity.crystalline = true; // a = 0.0030, b = 0.0042
+  // The law is parameterised by k(25 °C); find the one whose k0 = k(0 °C)·0.99 is 3.0.
+  double lo = 1.0, hi = 5.0;
+  for (int i = 0; i < 100; ++i)
+  {
+    crust.conductivity.k_ref = 0.5 * (lo + hi);
+    (conductivity_fit(crust.conductivity).q < 3.0 ? lo : hi) = crust.conductivity.k_ref;
+  }
+  ASSERT_NEAR(conductivity_fit(crust.conductivity).q, 3.0, 1e-12);
+  ThermalModel model(mesh, { crust }, std::vector<int>(cells, 0));
+  BoundaryCondition top;
+  top.kind = BoundaryCondition::Kind::FixedTemperature;
+  top.temperature = T0;
+  BoundaryCondition base;
+  base.kind = BoundaryCondition::Kind::HeatFlux;
+  base.side = Side::Bottom;
+  base.heat_flux = q0;
+  HeatOperator op(model, { top, base });
+  const auto T = op.steady_state(initial_temperatures(mesh, {}));
+  const std::pair<double, double> table[] = { { 1e3, 30.4454 }, { 5e3, 119.0950 },
+    { 10e3, 247.1191 }, { 20e3, 573.6624 } };
+  for (const auto& [z, exact] : table)
+    EXPECT_NEAR(at_depth(mesh, T, z), exact, 1e-3 * exact) << "z = " << z;
+
+  tbb::task_arena arena(1);
+  std::vector<double> rate;
+  PowerTally tally;
+  op.rate(T, rate, tally, arena);
+  const double column_area = dz * dz;
+  for (std::size_t i = 0; i < rate.size(); ++i) // heat imbalance per node vs the heat flowing
+    EXPECT_NEAR(rate[i] / (q0 * column_area), 0.0, 1e-9) << "node " << i;
 }
