@@ -335,7 +335,7 @@ StateBytes state_bytes_per_node(const ThermalModel& model, const HeatOperator& o
     shares += model.shares(i).size();
   StateBytes b;
   b.mesh = (n * 24 + cells * (1 + 8 + 4) + slots * 8) / n;
-  b.model = (cells * 4 + slots * (sizeof(CellSlot) + 8) + (n + 1) * 8 * 2 +
+  b.model = (cells * 4 + slots * (sizeof(CellSlot) + 8) + (n + 1) * 4 * 2 +
               shares * sizeof(NodeShare) + n * 16) / n; // cell rock, slots, cell-node volumes,
                                                        // offsets, shares, node volume + source
   b.op = op.bytes_per_node();

@@ -105,6 +105,9 @@ void validate(const BoundaryCondition& bc, std::size_t index)
 HeatOperator::HeatOperator(const ThermalModel& model, std::vector<BoundaryCondition> conditions)
   : model_(&model)
 {
+  if (model.n_nodes() > std::numeric_limits<std::uint32_t>::max())
+    throw std::invalid_argument("mesh too large for the heat operator: " +
+      std::to_string(model.n_nodes()) + " nodes (at most 2^32 - 1)");
   for (std::size_t i = 0; i < conditions.size(); ++i)
     validate(conditions[i], i);
   const Mesh& mesh = model.mesh();
@@ -146,7 +149,10 @@ HeatOperator::HeatOperator(const ThermalModel& model, std::vector<BoundaryCondit
       node_kind_[na.node] = kFluxFace;
   for (const auto& [node, T] : fixed_)
     node_kind_[node] = kHeld;
-  node_stiffness_.resize(model.n_nodes());
+  for (std::size_t i = 0; i < model.n_nodes(); ++i)
+    if (node_kind_[i] == kFluxFace)
+      flux_nodes_.push_back(static_cast<std::uint32_t>(i));
+  flux_stiffness_.resize(flux_nodes_.size());
   refresh();
 }
 
@@ -214,22 +220,26 @@ void HeatOperator::build_edges()
 void HeatOperator::refresh()
 {
   const ThermalModel& model = *model_;
-  if (model.n_nodes() > std::numeric_limits<std::uint32_t>::max())
-    throw std::invalid_argument("mesh too large for the heat operator: " +
-      std::to_string(model.n_nodes()) + " nodes (at most 2^32 - 1)");
-  min_capacity_.assign(model.n_nodes(), 0.0);
-  interior_inverse_capacity_.assign(model.n_nodes(), 0.0);
+  inverse_capacity_.assign(model.n_nodes(), 0.0);
   source_total_ = 0.0; // sequential: one fixed summation order
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
   {
+    double min_capacity = 0.0;
     for (const NodeShare& s : model.shares(i))
-      min_capacity_[i] += s.mass * min_heat_capacity(model.rocks()[s.rock], -100.0, 3000.0);
-    if (node_kind_[i] == kInterior && min_capacity_[i] > 0.0)
-      interior_inverse_capacity_[i] = 1.0 / min_capacity_[i];
+      min_capacity += s.mass * min_heat_capacity(model.rocks()[s.rock], -100.0, 3000.0);
+    if (node_kind_[i] != kHeld && min_capacity > 0.0)
+      inverse_capacity_[i] = 1.0 / min_capacity;
     if (node_kind_[i] != kHeld)
       source_total_ += model.node_source(i);
   }
   build_edges();
+}
+
+std::size_t HeatOperator::flux_index(std::size_t node) const
+{
+  return static_cast<std::size_t>(
+    std::lower_bound(flux_nodes_.begin(), flux_nodes_.end(), static_cast<std::uint32_t>(node)) -
+    flux_nodes_.begin());
 }
 
 double HeatOperator::bytes_per_node() const
@@ -237,7 +247,8 @@ double HeatOperator::bytes_per_node() const
   const double n = static_cast<double>(model_->n_nodes());
   const double edges = static_cast<double>(edge_node_.size());
   return (edges * (4 + 8 + 1) + (n + 1) * 4) / n +
-    8 /* min capacity */ + 8 /* its inverse */ + 1 /* kind */ + 8 /* stiffness scratch */;
+    8 /* inverse capacity */ + 1 /* kind */ +
+    static_cast<double>(flux_nodes_.size()) * (4 + 8) / n;
 }
 
 template <bool Bound, bool Rate>
@@ -270,9 +281,9 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
     if constexpr (Bound)
     {
       const double stiffness = std::abs(g_sum) + g_abs; // |A_ii| + Σ_j |A_ij|
-      worst = std::max(worst, stiffness * interior_inverse_capacity_[i]);
-      if (node_kind_[i] == kFluxFace)
-        node_stiffness_[i] = stiffness;
+      worst = std::max(worst, stiffness * inverse_capacity_[i]);
+      if (node_kind_[i] == kFluxFace) // rare: a search is cheaper than a per-node array
+        flux_stiffness_[flux_index(i)] = stiffness;
     }
   }
   return worst;
@@ -326,11 +337,10 @@ double HeatOperator::stable_step_from(double worst, const std::vector<double>& T
   for (const Group& g : groups_)
     for (const NodeArea& na : g.nodes)
       if (node_kind_[na.node] != kHeld)
-        node_stiffness_[na.node] += na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
-  for (const Group& g : groups_) // after all groups: a node's stiffness is complete
-    for (const NodeArea& na : g.nodes)
-      if (node_kind_[na.node] == kFluxFace && min_capacity_[na.node] > 0.0)
-        worst = std::max(worst, node_stiffness_[na.node] / min_capacity_[na.node]);
+        flux_stiffness_[flux_index(na.node)] +=
+          na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
+  for (std::size_t k = 0; k < flux_nodes_.size(); ++k) // after all groups: complete
+    worst = std::max(worst, flux_stiffness_[k] * inverse_capacity_[flux_nodes_[k]]);
   return worst > 0.0 ? 2.0 / worst : std::numeric_limits<double>::infinity();
 }
 

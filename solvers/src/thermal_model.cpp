@@ -28,9 +28,9 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
       throw PropertyError("cell " + std::to_string(c) + " (region " +
         std::to_string(mesh.cell_region[c]) + ") has no rock type");
   validate_mesh(mesh);
-  if (mesh.n_cells() > std::numeric_limits<std::uint32_t>::max())
-    throw PropertyError("mesh too large: " + std::to_string(mesh.n_cells()) +
-      " cells (at most 2^32 - 1)");
+  if (mesh.cell_nodes.size() > std::numeric_limits<std::uint32_t>::max())
+    throw PropertyError("mesh too large: " + std::to_string(mesh.cell_nodes.size()) +
+      " cell-node entries (at most 2^32 - 1)");
   cell_node_volume_ = compute_element_matrices(mesh).nodal_volume;
 
   // node → (cell, local index), cells ascending: the fixed gather order behind determinism.
@@ -41,7 +41,7 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
   for (std::size_t i = 0; i < n; ++i)
     slot_offsets_[i + 1] += slot_offsets_[i];
   slots_.resize(mesh.cell_nodes.size());
-  std::vector<std::int64_t> fill(slot_offsets_.begin(), slot_offsets_.end() - 1);
+  std::vector<std::uint32_t> fill(slot_offsets_.begin(), slot_offsets_.end() - 1);
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
   {
     const auto nodes = mesh.nodes(c);
@@ -81,7 +81,7 @@ void ThermalModel::build_shares()
     for (NodeShare& s : local)
       s.mass = s.volume * rocks_[s.rock].density;
     shares_.insert(shares_.end(), local.begin(), local.end());
-    share_offsets_[i + 1] = static_cast<std::int64_t>(shares_.size());
+    share_offsets_[i + 1] = static_cast<std::uint32_t>(shares_.size());
   }
 }
 
@@ -149,7 +149,7 @@ double invert(const Eval& eval, double E_target, double T_guess)
     if (!(newton > lo && newton < hi) && !(std::isfinite(lo) && std::isfinite(hi)))
       return T; // correction below round-off (newton == T) before both sides are known
     const double next = (newton > lo && newton < hi) ? newton : 0.5 * (lo + hi);
-    if (std::abs(next - T) <= 1e-12 * (1.0 + std::abs(T)) || hi - lo <= 1e-12 * (1.0 + std::abs(T)))
+    if (std::abs(next - T) <= 1e-9 * (1.0 + std::abs(T)) || hi - lo <= 1e-12 * (1.0 + std::abs(T)))
       return next;
     T = next;
   }
@@ -175,7 +175,12 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess) con
     const double h = E / node_shares[0].mass;
     if (fit.latent == 0.0 && fit.a1 == 0.0 && fit.a2 == 0.0 && fit.a3 == 0.0)
       return h / fit.a0; // constant c, no latent heat: linear
-    return invert([&fit](double T) { return EnergyAndCapacity{ fit.enthalpy(T), fit.capacity(T) }; },
+    return invert(
+      [&fit](double T) {
+        EnergyAndCapacity ec;
+        fit.evaluate(T, ec.E, ec.C);
+        return ec;
+      },
       h, T_guess);
   }
   return invert(
@@ -183,8 +188,10 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess) con
       EnergyAndCapacity ec{ 0.0, 0.0 };
       for (const NodeShare& s : node_shares)
       {
-        ec.E += s.mass * enthalpy_[s.rock].enthalpy(T);
-        ec.C += s.mass * enthalpy_[s.rock].capacity(T);
+        double h, c;
+        enthalpy_[s.rock].evaluate(T, h, c);
+        ec.E += s.mass * h;
+        ec.C += s.mass * c;
       }
       return ec;
     },

@@ -120,7 +120,7 @@ private:
 
   // Conduction kernel over nodes [begin, end): with Rate writes dEdt (sources included);
   // with Bound returns the largest Gershgorin rate λ_i = Σ_b |A_ib| / C_i over the interior
-  // nodes and leaves Σ_b |A_ib| of flux-boundary nodes in node_stiffness_ for the group pass.
+  // nodes and leaves Σ_b |A_ib| of flux-boundary nodes in flux_stiffness_ for the group pass.
   template <bool Bound, bool Rate>
   double sweep(const double* T, double* dEdt, std::size_t begin, std::size_t end) const;
   template <bool Bound, bool Rate>
@@ -143,9 +143,9 @@ private:
   std::vector<Group> groups_;
   std::vector<std::pair<std::int64_t, double>> fixed_;
   std::vector<std::uint8_t> node_kind_;
-  std::vector<double> min_capacity_; ///< per node, J/K, sensible heat only
-  /// 1/min_capacity_ of interior nodes, 0 elsewhere: the sweep's bound multiplies, no branch.
-  std::vector<double> interior_inverse_capacity_;
+  /// 1 / (smallest sensible heat capacity [J/K]) of free nodes, 0 for held ones: the
+  /// sweep's bound multiplies, no branch.
+  std::vector<double> inverse_capacity_;
   double source_total_ = 0.0;        ///< Σ radiogenic heat of the free nodes [W]
   /// Node i's edges at [edge_start_[i], edge_start_[i+1]), sorted by (neighbour, rock): the
   /// fixed summation order behind thread-count independence.
@@ -154,7 +154,9 @@ private:
   std::vector<double> edge_weight_;      ///< W^r_ij [m]
   std::vector<std::uint8_t> edge_rock_;  ///< r
   std::vector<ConductivityFit> fits_;    ///< per rock
-  mutable std::vector<double> node_stiffness_; ///< Σ_b |A_ib| of flux-boundary nodes [W/K]
+  std::vector<std::uint32_t> flux_nodes_;      ///< nodes on flux-boundary groups, ascending
+  mutable std::vector<double> flux_stiffness_; ///< their Σ_b |A_ib| [W/K], same order
+  std::size_t flux_index(std::size_t node) const;
 };
 
 } // namespace ember

@@ -121,6 +121,17 @@ struct EnthalpyFit
     const double f = (T - solidus) * inverse_interval;
     return sensible_capacity(T) + (f > 0.0 && f < 1.0 ? latent * inverse_interval : 0.0);
   }
+  /// enthalpy(T) and capacity(T) together, sharing the work (T(E)'s Newton iteration).
+  void evaluate(double T, double& h, double& c) const
+  {
+    const double t = T < t_lo ? t_lo : (T > t_hi ? t_hi : T);
+    const double c_sensible = a0 + t * (2.0 * a1 + t * (3.0 * a2 + t * 4.0 * a3));
+    const double f = (T - solidus) * inverse_interval;
+    const bool melting = f > 0.0 && f < 1.0;
+    h = t * (a0 + t * (a1 + t * (a2 + t * a3))) + (T - t) * c_sensible +
+      latent * (melting ? f : (f >= 1.0 ? 1.0 : 0.0));
+    c = c_sensible + (melting ? latent * inverse_interval : 0.0);
+  }
 };
 EnthalpyFit enthalpy_fit(const Rock& rock);
 

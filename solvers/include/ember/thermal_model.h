@@ -80,9 +80,9 @@ private:
   std::vector<Rock> rocks_;
   std::vector<EnthalpyFit> enthalpy_; ///< per rock
   std::vector<int> cell_rock_;
-  std::vector<std::int64_t> slot_offsets_;
+  std::vector<std::uint32_t> slot_offsets_; ///< ≤ 2^32 − 1 cell-node entries (checked)
   std::vector<CellSlot> slots_;
-  std::vector<std::int64_t> share_offsets_;
+  std::vector<std::uint32_t> share_offsets_;
   std::vector<NodeShare> shares_;
   std::vector<double> node_volume_;
   std::vector<double> node_source_;
