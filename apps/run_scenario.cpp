@@ -232,7 +232,8 @@ int run_scenario(const RunRequest& request)
   const auto& summaries = sim->GetBodySummaries();
   std::ofstream csv(out / "bodies.csv");
   csv << "time_yr,region,name,volume_m3,melt_volume_fraction,heat_in_place_J,recoverable_heat_J,"
-         "solidification_time_yr,contact_temperature_C,aureole_by_temperature_m,aureole_by_easyro_m\n";
+         "solidification_time_yr,contact_temperature_C,contact_distance_m,aureole_by_temperature_m,"
+         "aureole_by_easyro_m\n";
   csv.precision(10);
   for (const BodySummary& at : summaries)
   {
@@ -243,7 +244,8 @@ int run_scenario(const RunRequest& request)
           << (r.region < 0 ? std::string("whole model") : sim->GetRegionName(r.region)) << "\","
           << r.volume << "," << r.melt_volume_fraction << "," << r.heat_in_place << ","
           << r.recoverable_heat << "," << r.solidification_time / kSecondsPerYear << ","
-          << r.contact_temperature << "," << r.aureole_thickness_temperature << ","
+          << r.contact_temperature << "," << r.contact_distance << ","
+          << r.aureole_thickness_temperature << ","
           << r.aureole_thickness_reflectance << "\n";
   }
   csv.close();
@@ -262,6 +264,7 @@ int run_scenario(const RunRequest& request)
           b["solidified_yr"] = std::isfinite(r.solidification_time)
             ? nlohmann::json(r.solidification_time / kSecondsPerYear) : nlohmann::json();
           b["contact_temperature_C"] = r.contact_temperature;
+          b["contact_distance_m"] = r.contact_distance;
           b["aureole_by_temperature_m"] = r.aureole_thickness_temperature;
           b["aureole_by_easyro_m"] = r.aureole_thickness_reflectance;
         }
@@ -299,12 +302,13 @@ int run_scenario(const RunRequest& request)
   for (const auto& b : bodies)
   {
     const auto& solid = b.value("solidified_yr", nlohmann::json());
-    std::printf("  %-22s solidified %-28s max contact %6.0f °C   aureole (peak T > threshold) %.3g m\n",
+    std::printf("  %-22s solidified %-28s max contact %6.0f °C (%.3g m into the host)   aureole (peak T > threshold) %.3g m\n",
       b["name"].get<std::string>().c_str(),
       solid.is_number()
         ? (natural_time((solid.get<double>() - b["emplaced_yr"].get<double>()) * kSecondsPerYear) + " after emplacement").c_str()
         : "not by the end",
-      b.value("contact_temperature_C", std::nan("")), b.value("aureole_by_temperature_m", std::nan("")));
+      b.value("contact_temperature_C", std::nan("")), b.value("contact_distance_m", std::nan("")),
+      b.value("aureole_by_temperature_m", std::nan("")));
   }
   std::printf("results: %s\n  open in the viewer: paraview %s\n", fs::absolute(folder.target()).c_str(),
     (fs::absolute(folder.target()) / "temperature.pvd").c_str());

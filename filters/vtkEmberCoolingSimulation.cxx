@@ -444,6 +444,7 @@ vtkSmartPointer<vtkTable> vtkEmberCoolingSimulation::MakeSummaryTable() const
     column(prefix + "SolidificationTime_yr",
       [&](const S& s) { return pick(s).solidification_time / ember::kSecondsPerYear; });
     column(prefix + "ContactTemperature_C", [&](const S& s) { return pick(s).contact_temperature; });
+    column(prefix + "ContactDistance_m", [&](const S& s) { return pick(s).contact_distance; });
     column(prefix + "AureoleThicknessByTemperature_m",
       [&](const S& s) { return pick(s).aureole_thickness_temperature; });
     column(prefix + "AureoleThicknessByEasyRo_m",

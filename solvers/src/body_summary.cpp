@@ -135,16 +135,12 @@ private:
 // Largest distance from the body's boundary nodes to a host node reached from them through
 // host nodes whose value exceeds `limit` (breadth-first over cell neighbours). 0 if none.
 double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_any_body,
-  const std::vector<std::size_t>& boundary,
+  const std::vector<std::size_t>& boundary, const NearestPoint& nearest,
   std::span<const double> value, double limit)
 {
   if (value.empty() || boundary.empty()) // not recorded, or a body filling the whole mesh
     return kNaN;
   const Mesh& mesh = model.mesh();
-  std::vector<Point> boundary_points;
-  for (std::size_t b : boundary)
-    boundary_points.push_back(mesh.points[b]);
-  const NearestPoint nearest(std::move(boundary_points));
   std::vector<char> seen(model.n_nodes(), 0);
   std::vector<std::size_t> queue(boundary.begin(), boundary.end());
   for (std::size_t i : boundary)
@@ -164,6 +160,53 @@ double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_
         }
   }
   return thickness;
+}
+
+struct Contact
+{
+  double temperature = kNaN, distance = kNaN;
+};
+
+// Highest peak temperature among the host-side contact nodes: nodes of no body joined by a
+// cell edge to one of the body's boundary nodes (`in_any_body` also marks the boundary nodes,
+// so they are never candidates). Ties go to the node nearer the contact, then to the lower
+// node id, so the choice does not depend on the visiting order.
+Contact host_side_contact(const ThermalModel& model, const std::vector<char>& in_any_body,
+  const std::vector<std::size_t>& boundary, const NearestPoint& nearest,
+  std::span<const double> peak)
+{
+  Contact best;
+  if (peak.empty())
+    return best;
+  const Mesh& mesh = model.mesh();
+  std::vector<std::size_t> candidates;
+  for (std::size_t b : boundary)
+    for (const CellSlot& slot : model.cells_of(b))
+    {
+      const auto nodes = mesh.nodes(slot.cell);
+      for (const auto& edge : cell_edges(mesh.cell_types[slot.cell]))
+      {
+        int other = -1;
+        if (edge[0] == slot.local)
+          other = edge[1];
+        else if (edge[1] == slot.local)
+          other = edge[0];
+        if (other >= 0 && !in_any_body[nodes[other]])
+          candidates.push_back(static_cast<std::size_t>(nodes[other]));
+      }
+    }
+  std::sort(candidates.begin(), candidates.end());
+  candidates.erase(std::unique(candidates.begin(), candidates.end()), candidates.end());
+  for (std::size_t i : candidates)
+  {
+    const double T = peak[i];
+    if (std::isnan(T) || T < best.temperature)
+      continue;
+    const double d = nearest.distance(mesh.points[i]);
+    if (std::isnan(best.temperature) || T > best.temperature || d < best.distance)
+      best = { T, d };
+  }
+  return best;
 }
 } // namespace
 
@@ -233,7 +276,7 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
   RegionSummary& total = out.model;
   total.region = -1;
   double total_melt = 0.0;
-  total.contact_temperature = total.aureole_thickness_temperature =
+  total.contact_temperature = total.contact_distance = total.aureole_thickness_temperature =
     total.aureole_thickness_reflectance = kNaN;
 
   // One pass over the nodes: a node belongs to every region among its cells, and lies on the
@@ -270,21 +313,32 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
 
     row.solidification_time = solidification[region].value();
     const std::vector<std::size_t>& boundary = boundary_of[region];
-    row.contact_temperature = row.aureole_thickness_temperature =
+    row.contact_temperature = row.contact_distance = row.aureole_thickness_temperature =
       row.aureole_thickness_reflectance = kNaN;
     if (std::find(settings.bodies.begin(), settings.bodies.end(), region) ==
-      settings.bodies.end())
+        settings.bodies.end() ||
+      boundary.empty()) // not a body, or a body filling the whole mesh
       continue;
-    double contact = boundary.empty() ? kNaN : -kInf;
-    for (std::size_t i : boundary)
-      contact = std::max(contact, at(history.peak_temperature, i));
-    row.contact_temperature = contact;
-    row.aureole_thickness_temperature = aureole_thickness(
-      model, in_any_body, boundary, history.peak_temperature, settings.aureole_temperature);
-    row.aureole_thickness_reflectance = aureole_thickness(
-      model, in_any_body, boundary, history.reflectance, settings.aureole_reflectance);
-    // fmax ignores NaN: the model's value is the largest over the bodies that have one.
-    total.contact_temperature = std::fmax(total.contact_temperature, row.contact_temperature);
+    std::vector<Point> boundary_points;
+    for (std::size_t b : boundary)
+      boundary_points.push_back(mesh.points[b]);
+    const NearestPoint nearest(std::move(boundary_points));
+    const Contact contact =
+      host_side_contact(model, in_any_body, boundary, nearest, history.peak_temperature);
+    row.contact_temperature = contact.temperature;
+    row.contact_distance = contact.distance;
+    row.aureole_thickness_temperature = aureole_thickness(model, in_any_body, boundary, nearest,
+      history.peak_temperature, settings.aureole_temperature);
+    row.aureole_thickness_reflectance = aureole_thickness(model, in_any_body, boundary, nearest,
+      history.reflectance, settings.aureole_reflectance);
+    // The model's contact is the largest over the bodies that have one (NaN ignored), with
+    // the distance of the node that gave it; the first body in region order wins a tie.
+    if (!std::isnan(row.contact_temperature) &&
+      !(row.contact_temperature <= total.contact_temperature))
+    {
+      total.contact_temperature = row.contact_temperature;
+      total.contact_distance = row.contact_distance;
+    }
     total.aureole_thickness_temperature =
       std::fmax(total.aureole_thickness_temperature, row.aureole_thickness_temperature);
     total.aureole_thickness_reflectance =

@@ -164,6 +164,26 @@ const char* cell_type_name(CellType type)
   return "invalid cell type";
 }
 
+std::span<const std::array<int, 2>> cell_edges(CellType type)
+{
+  static constexpr std::array<std::array<int, 2>, 6> tet = { { { 0, 1 }, { 1, 2 }, { 2, 0 },
+    { 0, 3 }, { 1, 3 }, { 2, 3 } } };
+  static constexpr std::array<std::array<int, 2>, 12> hex = { { { 0, 1 }, { 1, 2 }, { 3, 2 },
+    { 0, 3 }, { 4, 5 }, { 5, 6 }, { 7, 6 }, { 4, 7 }, { 0, 4 }, { 1, 5 }, { 3, 7 }, { 2, 6 } } };
+  static constexpr std::array<std::array<int, 2>, 9> wedge = { { { 0, 1 }, { 1, 2 }, { 2, 0 },
+    { 3, 4 }, { 4, 5 }, { 5, 3 }, { 0, 3 }, { 1, 4 }, { 2, 5 } } };
+  static constexpr std::array<std::array<int, 2>, 8> pyramid = { { { 0, 1 }, { 1, 2 },
+    { 2, 3 }, { 3, 0 }, { 0, 4 }, { 1, 4 }, { 2, 4 }, { 3, 4 } } };
+  switch (type)
+  {
+  case CellType::Tetrahedron: return tet;
+  case CellType::Hexahedron: return hex;
+  case CellType::Wedge: return wedge;
+  case CellType::Pyramid: return pyramid;
+  }
+  throw MeshError("invalid cell type " + std::to_string(static_cast<int>(type)));
+}
+
 void Mesh::add_cell(CellType type, std::span<const std::int64_t> node_ids, int region)
 {
   // A wrong count would shift every later cell's nodes in the CSR arrays, so refuse it here.

@@ -13,6 +13,10 @@
 #include "ember/inputs/region_map.h"
 
 #include <vtkCellData.h>
+#include <vtkHexahedron.h>
+#include <vtkPyramid.h>
+#include <vtkTetra.h>
+#include <vtkWedge.h>
 #include <vtkDataArray.h>
 #include <vtkDoubleArray.h>
 #include <vtkImageData.h>
@@ -27,7 +31,10 @@
 #include <boost/filesystem/operations.hpp>
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
+#include <set>
+#include <utility>
 
 using ember::bridge::SnapshotCache;
 
@@ -225,4 +232,31 @@ TEST(IsothermDepthFilter, LinearGeothermGivesExactDepth)
   map->SetIsotherm(5.0); // colder than the top: the isotherm is at the surface
   map->Update();
   EXPECT_EQ(map->GetOutput()->GetPointData()->GetArray("IsothermDepth_m")->GetTuple1(0), 0.0);
+}
+
+// The core's cell edge tables (ember::cell_edges, used for the host-side contact temperature)
+// against VTK's own (vtkTetra/vtkHexahedron/vtkWedge/vtkPyramid::GetEdgeArray), as unordered
+// node pairs: the core's mesh follows VTK's node ordering.
+TEST(CellEdges, MatchVtk)
+{
+  auto vtk_edges = [](vtkIdType n, const vtkIdType* (*edge)(vtkIdType)) {
+    std::set<std::pair<int, int>> s;
+    for (vtkIdType e = 0; e < n; ++e)
+      s.insert({ int(std::min(edge(e)[0], edge(e)[1])), int(std::max(edge(e)[0], edge(e)[1])) });
+    return s;
+  };
+  auto core_edges = [](ember::CellType type) {
+    std::set<std::pair<int, int>> s;
+    for (const auto& e : ember::cell_edges(type))
+      s.insert({ std::min(e[0], e[1]), std::max(e[0], e[1]) });
+    return s;
+  };
+  EXPECT_EQ(core_edges(ember::CellType::Tetrahedron),
+    vtk_edges(vtkTetra::NumberOfEdges, &vtkTetra::GetEdgeArray));
+  EXPECT_EQ(core_edges(ember::CellType::Hexahedron),
+    vtk_edges(vtkHexahedron::NumberOfEdges, &vtkHexahedron::GetEdgeArray));
+  EXPECT_EQ(core_edges(ember::CellType::Wedge),
+    vtk_edges(vtkWedge::NumberOfEdges, &vtkWedge::GetEdgeArray));
+  EXPECT_EQ(core_edges(ember::CellType::Pyramid),
+    vtk_edges(vtkPyramid::NumberOfEdges, &vtkPyramid::GetEdgeArray));
 }

@@ -108,7 +108,8 @@ peak, T = out.GetPointData().GetArray("PeakTemperature"), out.GetPointData().Get
 check(peak is not None and all(peak.GetValue(i) >= T.GetValue(i) - 1e-9 for i in range(T.GetNumberOfTuples())),
       "PeakTemperature is published and never below the current temperature")
 table = sim.GetClientSideObject().GetOutputDataObject(1)
-check(table.GetNumberOfRows() == len(times) and table.GetColumnByName("Early sill: ContactTemperature_C") is not None,
+check(table.GetNumberOfRows() == len(times) and table.GetColumnByName("Early sill: ContactTemperature_C") is not None
+      and table.GetColumnByName("Early sill: ContactDistance_m") is not None,
       "body summary table: one row per output time, per-body columns")
 ledger = local(sim).GetFieldData().GetArray("EnergyLedger_J")
 check(abs(ledger.GetComponent(0, 5)) <= 1e-9 * abs(ledger.GetComponent(0, 0)),

@@ -4,7 +4,9 @@
 #include <gtest/gtest.h>
 
 #include <numeric>
+#include <set>
 #include <string>
+#include <utility>
 
 using namespace ember;
 
@@ -74,6 +76,41 @@ TEST(Mesh, CellTypeNodeCountsAndNames)
   EXPECT_STREQ(cell_type_name(CellType::Hexahedron), "hexahedron");
   EXPECT_STREQ(cell_type_name(CellType::Wedge), "wedge");
   EXPECT_STREQ(cell_type_name(CellType::Pyramid), "pyramid");
+}
+
+// Edges by the VTK node ordering (VTK file-format documentation, linear cell types): rings of
+// the hexahedron (0–3 bottom, 4–7 top) and of the pyramid's base joined in order, the wedge's
+// two triangles, and the columns joining them (hex i–i+4, wedge i–i+3) or the pyramid's apex;
+// every pair of a tetrahedron. No duplicates. (tests/filters checks the tables against VTK's.)
+TEST(Mesh, CellEdgesFollowVtkOrdering)
+{
+  auto rule = [](CellType type, int i, int j) {
+    switch (type)
+    {
+    case CellType::Tetrahedron: return true;
+    case CellType::Hexahedron:
+      return (i / 4 == j / 4 && (j % 4 == (i + 1) % 4 || i % 4 == (j + 1) % 4)) || j == i + 4;
+    case CellType::Wedge: return i / 3 == j / 3 || j == i + 3;
+    case CellType::Pyramid: return j == 4 || j == i + 1 || (i == 0 && j == 3);
+    }
+    return false;
+  };
+  for (CellType type : { CellType::Tetrahedron, CellType::Hexahedron, CellType::Wedge,
+         CellType::Pyramid })
+  {
+    std::set<std::pair<int, int>> expected, got;
+    const int n = n_cell_nodes(type);
+    for (int i = 0; i < n; ++i)
+      for (int j = i + 1; j < n; ++j)
+        if (rule(type, i, j))
+          expected.insert({ i, j });
+    for (const auto& e : cell_edges(type))
+      EXPECT_TRUE(got.insert({ std::min(e[0], e[1]), std::max(e[0], e[1]) }).second)
+        << cell_type_name(type) << " repeats edge " << e[0] << "-" << e[1];
+    EXPECT_EQ(got, expected) << cell_type_name(type);
+    EXPECT_EQ(cell_edges(type).size(), std::size_t(type == CellType::Tetrahedron ? 6
+        : type == CellType::Hexahedron ? 12 : type == CellType::Wedge ? 9 : 8));
+  }
 }
 
 TEST(Mesh, AddCellBuildsCsrAndRejectsWrongNodeCount)

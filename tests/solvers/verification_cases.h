@@ -90,20 +90,19 @@ struct Sheet
   double peak_theta(double x) const { return theta(x, peak_time(x)); }
 };
 
-/// Half the sheet: symmetry plane at z = 0 (insulated base), the sheet fills −b < z < 0 measured
-/// from the model top... we use depth d = distance from the symmetry plane, mesh top far away.
+/// Half a sheet of half-thickness b in one rock (region 1, emplaced at t = 0 at T_emplaced
+/// into host at T_host): symmetry plane at the column's base (insulated), the far field at
+/// the top (insulated); the distance from the sheet centre is x = z + extent.
 /// With `history`, a ThermalHistory is recorded during the run (ColumnRun::history).
-inline ColumnRun run_sheet(const Sheet& p, double extent, int cells, bool tets,
-  const std::vector<double>& times, int threads = 0, double width = 1.0,
-  IntegratorKind kind = IntegratorKind::ForwardEuler, const ThermalHistorySettings* history = nullptr)
+inline ColumnRun run_layer(const Rock& rock, double b, double T_host, double T_emplaced,
+  double extent, int cells, bool tets, const std::vector<double>& times, int threads = 0,
+  double width = 1.0, IntegratorKind kind = IntegratorKind::ForwardEuler,
+  const ThermalHistorySettings* history = nullptr)
 {
-  // Column from z = −extent (symmetry plane, insulated) up to z = 0 (far field, insulated):
-  // distance from the sheet centre is x = z + extent.
   ColumnRun run{ tets ? make_box_tet({ 0, 0, -extent }, { width, width, 0 }, { 1, 1, cells })
                       : make_box_hex({ 0, 0, -extent }, { width, width, 0 }, { 1, 1, cells }),
     {}, width * width, {} };
-  mark_layer(run.mesh, -2 * extent, p.b - extent);
-  const Rock rock = simple_rock("rock", p.k, p.rho, p.c);
+  mark_layer(run.mesh, -2 * extent, b - extent);
   ThermalModel model(run.mesh, { rock }, std::vector<int>(run.mesh.n_cells(), 0));
   SimulationSettings s;
   s.output_times = times;
@@ -111,9 +110,18 @@ inline ColumnRun run_sheet(const Sheet& p, double extent, int cells, bool tets,
   const auto integrator = make_integrator(kind);
   if (history)
     run.history = std::make_shared<ThermalHistory>(model, *history);
-  run.result = simulate(model, {}, { InitialState::Kind::Uniform, p.Th }, { { 1, 0, 0.0, p.T0 } },
-    s, *integrator, {}, run.history.get());
+  run.result = simulate(model, {}, { InitialState::Kind::Uniform, T_host },
+    { { 1, 0, 0.0, T_emplaced } }, s, *integrator, {}, run.history.get());
   return run;
+}
+
+/// The sheet of Carslaw & Jaeger in a column (run_layer with the sheet's rock).
+inline ColumnRun run_sheet(const Sheet& p, double extent, int cells, bool tets,
+  const std::vector<double>& times, int threads = 0, double width = 1.0,
+  IntegratorKind kind = IntegratorKind::ForwardEuler, const ThermalHistorySettings* history = nullptr)
+{
+  return run_layer(simple_rock("rock", p.k, p.rho, p.c), p.b, p.Th, p.T0, extent, cells, tets,
+    times, threads, width, kind, history);
 }
 
 /// Nodal value at distance x from the symmetry plane of run_sheet.
@@ -124,15 +132,21 @@ inline double sheet_value(const ColumnRun& run, double extent, const std::vector
 }
 
 // ---- Turcotte & Schubert (2002) §4.18 (from memory); verification.md §3(i): lava-lake crust --
-/// λ1 from L√π/(c ΔT) = exp(−λ²)/(λ erf λ), by Boost.Math's TOMS 748 bracketing solver.
-inline double stefan_lambda(double L, double c, double dT)
+/// Root of f on [1e-3, 5] by Boost.Math's TOMS 748 bracketing solver.
+template <class F>
+double lambda_root(F f)
 {
-  const double lhs = L * std::sqrt(std::numbers::pi) / (c * dT);
-  auto f = [lhs](double l) { return std::exp(-l * l) / (l * std::erf(l)) - lhs; };
   boost::math::tools::eps_tolerance<double> tol(50);
   std::uintmax_t iterations = 100;
   const auto [lo, hi] = boost::math::tools::toms748_solve(f, 1e-3, 5.0, tol, iterations);
   return 0.5 * (lo + hi);
+}
+
+/// λ1 from L√π/(c ΔT) = exp(−λ²)/(λ erf λ).
+inline double stefan_lambda(double L, double c, double dT)
+{
+  const double lhs = L * std::sqrt(std::numbers::pi) / (c * dT);
+  return lambda_root([lhs](double l) { return std::exp(-l * l) / (l * std::erf(l)) - lhs; });
 }
 
 /// Lava lake of T&S §4.18: melt at the liquidus under a surface held at 0 °C; a solidus–
@@ -159,5 +173,46 @@ inline ColumnRun run_lava_lake(const LavaLake& p, const std::vector<double>& tim
   return run_cooling_column(
     p.magma(), p.Tm + p.half_interval, 0.0, p.depth, p.cells, false, times, 0, history);
 }
+
+// ---- Turcotte & Schubert (2002), "Solidification of a dike or sill" (§4.19 from memory);
+// verification.md §3(ii): a sill intruded at its melting point, same properties in magma and
+// host. Solid grows inward from each wall as x_m = 2λ2√(κt); the contact stays at
+// T_c = T_host + (Tm − T_host)/(1 + erf λ2) until the fronts meet at t_s = b²/(4κλ2²).
+/// λ2 from L√π/(c ΔT) = exp(−λ²)/(λ (1 + erf λ)).
+inline double sill_lambda(double L, double c, double dT)
+{
+  const double lhs = L * std::sqrt(std::numbers::pi) / (c * dT);
+  return lambda_root(
+    [lhs](double l) { return std::exp(-l * l) / (l * (1 + std::erf(l))) - lhs; });
+}
+
+/// T&S's numbers of verification.md §3(ii), first row: L = 400 kJ/kg, c = 1 kJ/kg/K,
+/// Tm − T_host = 1000 K (λ2 = 0.606664, T_c at 0.621473 of the way). A solidus–liquidus
+/// interval of ±2.5 K around Tm (0.5 % of ΔT) stands in for isothermal melting (verification.md
+/// §3(i): ≤ 1 %); the magma is emplaced at the liquidus.
+struct MeltingSill
+{
+  double b = 1.0; // half-thickness [m]
+  double k = 2.5, rho = 2500, c = 1000, L = 4e5; // κ = 1e-6 m²/s
+  double T_host = 0, Tm = 1000, half_interval = 2.5;
+  double kappa() const { return k / (rho * c); }
+  double lambda() const { return sill_lambda(L, c, Tm - T_host); }
+  double contact() const { return T_host + (Tm - T_host) / (1 + std::erf(lambda())); }
+  /// host temperature at distance d outside the contact, exact for t ≤ solidification_time()
+  double host(double d, double t) const
+  {
+    return T_host +
+      (Tm - T_host) * (1 - std::erf(d / (2 * std::sqrt(kappa() * t)))) / (1 + std::erf(lambda()));
+  }
+  double solidification_time() const { return b * b / (4 * kappa() * lambda() * lambda()); }
+  Rock magma() const
+  {
+    Rock r = simple_rock("magma", k, rho, c);
+    r.latent_heat = L;
+    r.solidus = Tm - half_interval;
+    r.liquidus = Tm + half_interval;
+    return r;
+  }
+};
 
 } // namespace ember::testing

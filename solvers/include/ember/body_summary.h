@@ -12,7 +12,9 @@
  * stored heat. Recoverable heat is R·H with a user recovery factor R.
  *
  * Nodes on a region's boundary belong to the region (their cells in the region count with
- * their volume shares; for nodal quantities such as solidification they count whole).
+ * their volume shares; for nodal quantities such as solidification they count whole). The
+ * contact temperature of a body is therefore read one node out, on the host side (see
+ * RegionSummary::contact_temperature).
  * Temperatures in °C, times in s, volumes in m³, heat in J, distances in m.
  */
 #pragma once
@@ -57,9 +59,31 @@ struct RegionSummary
   /// Time the last of the region's nodes solidified [s]: NaN if none was ever molten, +∞ while
   /// any still is.
   double solidification_time = 0.0;
-  /// Bodies only: highest peak temperature on the body's boundary nodes [°C]. Those nodes'
-  /// control volumes straddle the contact, so they carry the contact temperature.
+  /// Bodies only: maximum contact temperature [°C], read on the host side: the highest peak
+  /// temperature among the host-side contact nodes, i.e. nodes of no body (of none of
+  /// `BodySummarySettings::bodies`) joined by a cell edge to one of this body's boundary nodes.
+  /// NaN if the body has no such node or no peak temperature was recorded.
+  ///
+  /// Why not the boundary nodes themselves: with a lumped enthalpy a boundary node's heat
+  /// content is the sum of its body and host shares, E_i = Σ_c ρ_c V_ci h_c(T), so at
+  /// emplacement it takes the temperature of a mixture of magma (with its latent heat) and
+  /// cold host, whatever the cell size: for basaltic magma into cold sediment that lies near
+  /// or in the magma's melting interval, where latent heat holds it until the node's magma
+  /// share has frozen. The analytical contact temperature is far lower: half-way between host
+  /// and magma temperature without latent heat (Carslaw & Jaeger 1959 ch. 2; the
+  /// effusivity-weighted mean (e1 T1 + e2 T2)/(e1 + e2), e = √(kρc), for unequal rocks, same
+  /// book, composite media, from memory) and T0 + (Tm − T0)/(1 + erf λ) for magma intruded at
+  /// its melting point (Turcotte & Schubert 2002, solidification of a dike or sill; 0.62 of
+  /// the way for L = 400 kJ/kg, c = 1 kJ/kg/K, ΔT = 1000 K, where the boundary node starts at
+  /// 0.70). A host-side node holds host rock only, so its peak converges to the contact value
+  /// as the cells shrink, first order in its distance d from the contact (about
+  /// ΔT·(2/√π)(λd/b)/(1 + erf λ) low beside a sill of half-thickness b intruded at its
+  /// melting point); `contact_distance` says how far from the contact it was taken.
   double contact_temperature = 0.0;
+  /// Bodies only: distance from the host-side node that gave `contact_temperature` to the
+  /// nearest of the body's boundary nodes [m] (the node spacing across the contact on a
+  /// structured mesh); NaN when `contact_temperature` is NaN.
+  double contact_distance = 0.0;
   /// Bodies only: largest distance from the body's boundary nodes to a host node whose peak
   /// temperature exceeded aureole_temperature [m], counting only host nodes connected to
   /// the body through such nodes (so neighbouring bodies' aureoles and a hot deep background
@@ -74,7 +98,9 @@ struct BodySummary
   double time = 0.0;                  ///< [s]
   std::vector<RegionSummary> regions; ///< one per region id present, ascending
   RegionSummary model;                ///< whole model (region −1); contact and aureole: the
-                                      ///< maximum over the bodies, NaN without bodies
+                                      ///< maximum over the bodies, NaN without bodies;
+                                      ///< contact_distance: that of the body giving the
+                                      ///< maximum contact temperature
 };
 
 /// Per-node history the summary reads; empty spans are treated as "not recorded" (NaN).

@@ -32,6 +32,10 @@ int n_cell_nodes(CellType type);
 /// Human-readable name ("tetrahedron", ...).
 const char* cell_type_name(CellType type);
 
+/// Local node pairs joined by an edge of a cell of this type, in VTK's edge order (vtkTetra,
+/// vtkHexahedron, vtkWedge, vtkPyramid): 6, 12, 9 and 8 edges.
+std::span<const std::array<int, 2>> cell_edges(CellType type);
+
 /// Thrown for input that cannot form a valid mesh; the message names the offending cell ids.
 class MeshError : public std::runtime_error
 {
