@@ -247,10 +247,11 @@ Csr assemble_csr(const ThermalModel& model)
   Csr a;
   a.row_start.assign(n + 1, 0);
   std::vector<std::pair<std::int64_t, double>> row;
+  const NodeCells cells(mesh);
   for (std::size_t i = 0; i < n; ++i)
   {
     row.clear();
-    for (const CellSlot& slot : model.cells_of(i))
+    for (const CellSlot& slot : cells.of(i))
     {
       const auto nodes = mesh.nodes(slot.cell);
       const std::size_t m = nodes.size();
@@ -335,9 +336,8 @@ StateBytes state_bytes_per_node(const ThermalModel& model, const HeatOperator& o
     shares += model.shares(i).size();
   StateBytes b;
   b.mesh = (n * 24 + cells * (1 + 8 + 4) + slots * 8) / n;
-  b.model = (cells * 4 + slots * (sizeof(CellSlot) + 8) + (n + 1) * 4 * 2 +
-              shares * sizeof(NodeShare) + n * 16) / n; // cell rock, slots, cell-node volumes,
-                                                       // offsets, shares, node volume + source
+  b.model = (cells * 4 + slots * 8 + (n + 1) * 4 + shares * sizeof(NodeShare) + n * 16) /
+    n; // cell rock, cell-node volumes, share offsets, shares, node volume + source
   b.op = op.bytes_per_node();
   b.vectors = 8 * 2 + 8 * (kind == IntegratorKind::RKL2 ? 6 : 1); // E, T + integrator
   return b;

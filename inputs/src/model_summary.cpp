@@ -25,17 +25,17 @@ double box_cell_volume(const Mesh& mesh, std::size_t c)
  * Bytes the core's main arrays take for a run, per cell and per node (from the members of
  * Mesh, ThermalModel, HeatOperator and the driver for 8-node hexahedra, about one cell per
  * node; bench/README.md has the measured figures):
- * per cell: connectivity 64 + offsets 8 + type/region 5, nodal volumes 64, cell slots 8·8,
- * rock 4 → ~209;
- * per node: point 24, shares ~24, volume/source 16, offsets 16, heat-operator edges ~6·13 + 25,
- * E/T and the integrator's vectors 8·8 → ~247, plus 16 per stored snapshot (T and melt
- * fraction). The peak comes while the operator is built: the element matrices then take
- * 592 B per cell more (stiffness 64·8, offsets 8, nodal volumes 64, volume 8), counted here.
+ * per cell: connectivity 64 + offsets 8 + type/region 5, nodal volumes 64, rock 4 → ~145;
+ * per node: point 24, shares ~24, volume/source 16, offsets 4, heat-operator edges ~6·13 + 13,
+ * E/T and the integrator's vectors 8·8 → ~223, plus 16 per stored snapshot (T and melt
+ * fraction). The peak comes while the operator is built: the element matrices (stiffness 64·8,
+ * offsets 8, nodal volumes 64, volume 8) and the node-to-cell index (8 per cell-node) then
+ * take 656 B per cell more, counted here.
  * An estimate: allocator overhead and the viewer's copies are not counted.
  */
 double memory_estimate(std::size_t cells, std::size_t nodes, std::size_t snapshots)
 {
-  return (209.0 + 592.0) * double(cells) + (247.0 + 16.0 * double(snapshots)) * double(nodes);
+  return (145.0 + 656.0) * double(cells) + (223.0 + 16.0 * double(snapshots)) * double(nodes);
 }
 
 double stable_step(const Scenario& scenario, const BuiltModel& model)

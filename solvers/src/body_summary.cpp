@@ -134,7 +134,8 @@ private:
 
 // Largest distance from the body's boundary nodes to a host node reached from them through
 // host nodes whose value exceeds `limit` (breadth-first over cell neighbours). 0 if none.
-double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_any_body,
+double aureole_thickness(const ThermalModel& model, const NodeCells& cells,
+  const std::vector<char>& in_any_body,
   const std::vector<std::size_t>& boundary, const NearestPoint& nearest,
   std::span<const double> value, double limit)
 {
@@ -151,7 +152,7 @@ double aureole_thickness(const ThermalModel& model, const std::vector<char>& in_
     const std::size_t i = queue[head];
     if (!in_any_body[i]) // a reached host node, not a boundary node we started from
       thickness = std::max(thickness, nearest.distance(mesh.points[i]));
-    for (const CellSlot& slot : model.cells_of(i))
+    for (const CellSlot& slot : cells.of(i))
       for (std::int64_t j : mesh.nodes(slot.cell))
         if (!seen[j] && !in_any_body[j] && value[j] > limit)
         {
@@ -171,7 +172,8 @@ struct Contact
 // cell edge to one of the body's boundary nodes (`in_any_body` also marks the boundary nodes,
 // so they are never candidates). Ties go to the node nearer the contact, then to the lower
 // node id, so the choice does not depend on the visiting order.
-Contact host_side_contact(const ThermalModel& model, const std::vector<char>& in_any_body,
+Contact host_side_contact(const ThermalModel& model, const NodeCells& cells,
+  const std::vector<char>& in_any_body,
   const std::vector<std::size_t>& boundary, const NearestPoint& nearest,
   std::span<const double> peak)
 {
@@ -181,7 +183,7 @@ Contact host_side_contact(const ThermalModel& model, const std::vector<char>& in
   const Mesh& mesh = model.mesh();
   std::vector<std::size_t> candidates;
   for (std::size_t b : boundary)
-    for (const CellSlot& slot : model.cells_of(b))
+    for (const CellSlot& slot : cells.of(b))
     {
       const auto nodes = mesh.nodes(slot.cell);
       for (const auto& edge : cell_edges(mesh.cell_types[slot.cell]))
@@ -240,6 +242,7 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
   const NodeHistory& history, const BodySummarySettings& settings)
 {
   const Mesh& mesh = model.mesh();
+  const NodeCells cells(mesh); // built per summary, not kept by the model (memory)
   const std::vector<double>& cell_node_volume = model.cell_node_volumes();
   const double T_ref = settings.reference_temperature;
   std::map<int, RegionSummary> by_region; // ascending region id
@@ -288,7 +291,7 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
   {
     here.clear();
-    for (const CellSlot& slot : model.cells_of(i))
+    for (const CellSlot& slot : cells.of(i))
       if (std::find(here.begin(), here.end(), mesh.cell_region[slot.cell]) == here.end())
         here.push_back(mesh.cell_region[slot.cell]);
     if (!here.empty())
@@ -324,12 +327,12 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
       boundary_points.push_back(mesh.points[b]);
     const NearestPoint nearest(std::move(boundary_points));
     const Contact contact =
-      host_side_contact(model, in_any_body, boundary, nearest, history.peak_temperature);
+      host_side_contact(model, cells, in_any_body, boundary, nearest, history.peak_temperature);
     row.contact_temperature = contact.temperature;
     row.contact_distance = contact.distance;
-    row.aureole_thickness_temperature = aureole_thickness(model, in_any_body, boundary, nearest,
+    row.aureole_thickness_temperature = aureole_thickness(model, cells, in_any_body, boundary, nearest,
       history.peak_temperature, settings.aureole_temperature);
-    row.aureole_thickness_reflectance = aureole_thickness(model, in_any_body, boundary, nearest,
+    row.aureole_thickness_reflectance = aureole_thickness(model, cells, in_any_body, boundary, nearest,
       history.reflectance, settings.aureole_reflectance);
     // The model's contact is the largest over the bodies that have one (NaN ignored), with
     // the distance of the node that gave it; the first body in region order wins a tie.

@@ -181,12 +181,13 @@ void HeatOperator::build_edges()
     double weight;
   };
   std::vector<Entry> row;
+  const NodeCells cells(mesh);
   for (std::size_t i = 0; i < n; ++i)
   {
     // Cells in ascending order, then a stable sort: the weights of one (j, rock) pair are
     // summed in ascending cell order from either end, so W_ij = W_ji exactly.
     row.clear();
-    for (const CellSlot& slot : model.cells_of(i))
+    for (const CellSlot& slot : cells.of(i))
     {
       const auto nodes = mesh.nodes(slot.cell);
       const std::size_t m = nodes.size();

@@ -98,11 +98,12 @@ ThermalHistory::ThermalHistory(const ThermalModel& model, ThermalHistorySettings
 {
   check(model, settings_);
   // Compact index of organic-bearing nodes, ascending node id; region taken from the node's
-  // lowest-numbered organic cell (cells_of() lists cells ascending).
+  // lowest-numbered organic cell (NodeCells lists cells ascending).
   const Mesh& mesh = model.mesh();
   organic_index_.assign(model.n_nodes(), -1);
+  const NodeCells cells(mesh);
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
-    for (const CellSlot& slot : model.cells_of(i))
+    for (const CellSlot& slot : cells.of(i))
     {
       const int region = mesh.cell_region[slot.cell];
       const auto it = std::find_if(settings_.organic.begin(), settings_.organic.end(),

@@ -28,26 +28,7 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
       throw PropertyError("cell " + std::to_string(c) + " (region " +
         std::to_string(mesh.cell_region[c]) + ") has no rock type");
   validate_mesh(mesh);
-  if (mesh.cell_nodes.size() > std::numeric_limits<std::uint32_t>::max())
-    throw PropertyError("mesh too large: " + std::to_string(mesh.cell_nodes.size()) +
-      " cell-node entries (at most 2^32 - 1)");
   cell_node_volume_ = compute_element_matrices(mesh).nodal_volume;
-
-  // node → (cell, local index), cells ascending: the fixed gather order behind determinism.
-  const std::size_t n = mesh.n_points();
-  slot_offsets_.assign(n + 1, 0);
-  for (std::int64_t node : mesh.cell_nodes)
-    ++slot_offsets_[node + 1];
-  for (std::size_t i = 0; i < n; ++i)
-    slot_offsets_[i + 1] += slot_offsets_[i];
-  slots_.resize(mesh.cell_nodes.size());
-  std::vector<std::uint32_t> fill(slot_offsets_.begin(), slot_offsets_.end() - 1);
-  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-  {
-    const auto nodes = mesh.nodes(c);
-    for (std::size_t a = 0; a < nodes.size(); ++a)
-      slots_[fill[nodes[a]]++] = { static_cast<std::uint32_t>(c), static_cast<std::uint32_t>(a) };
-  }
   build_shares();
 }
 
@@ -60,10 +41,11 @@ void ThermalModel::build_shares()
   node_volume_.assign(n, 0.0);
   node_source_.assign(n, 0.0);
   std::vector<NodeShare> local;
+  const NodeCells cells(mesh);
   for (std::size_t i = 0; i < n; ++i)
   {
     local.clear();
-    for (const CellSlot& slot : cells_of(i))
+    for (const CellSlot& slot : cells.of(i))
     {
       const int rock = cell_rock_[slot.cell];
       const double volume =
@@ -89,12 +71,6 @@ std::span<const NodeShare> ThermalModel::shares(std::size_t node) const
 {
   return { shares_.data() + share_offsets_[node],
     static_cast<std::size_t>(share_offsets_[node + 1] - share_offsets_[node]) };
-}
-
-std::span<const CellSlot> ThermalModel::cells_of(std::size_t node) const
-{
-  return { slots_.data() + slot_offsets_[node],
-    static_cast<std::size_t>(slot_offsets_[node + 1] - slot_offsets_[node]) };
 }
 
 double ThermalModel::energy(std::size_t node, double T) const

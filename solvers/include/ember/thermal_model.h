@@ -12,6 +12,7 @@
 
 #include "ember/geometry.h"
 #include "ember/mesh.h"
+#include "ember/node_cells.h"
 #include "ember/rock.h"
 
 #include <cstdint>
@@ -28,13 +29,6 @@ struct NodeShare
   double volume = 0.0; ///< [m³]
 };
 
-/// Where a node appears in a cell: the cell and the node's local index in it.
-struct CellSlot
-{
-  std::uint32_t cell; ///< meshes are limited to 2^32 − 1 cells (checked)
-  std::uint32_t local;
-};
-
 class ThermalModel
 {
 public:
@@ -49,9 +43,8 @@ public:
   const std::vector<int>& cell_rock() const { return cell_rock_; }
   std::size_t n_nodes() const { return mesh_->n_points(); }
 
-  /// Shares of node i, and the cells that contain node i (ascending cell id).
+  /// Shares of node i (the rock types of its cells, ascending by first appearance).
   std::span<const NodeShare> shares(std::size_t node) const;
-  std::span<const CellSlot> cells_of(std::size_t node) const;
   double node_volume(std::size_t node) const { return node_volume_[node]; }
   /// Radiogenic heat production of the node's control volume [W].
   double node_source(std::size_t node) const { return node_source_[node]; }
@@ -80,8 +73,6 @@ private:
   std::vector<Rock> rocks_;
   std::vector<EnthalpyFit> enthalpy_; ///< per rock
   std::vector<int> cell_rock_;
-  std::vector<std::uint32_t> slot_offsets_; ///< ≤ 2^32 − 1 cell-node entries (checked)
-  std::vector<CellSlot> slots_;
   std::vector<std::uint32_t> share_offsets_;
   std::vector<NodeShare> shares_;
   std::vector<double> node_volume_;
