@@ -116,7 +116,9 @@ struct Problem
 
 // Box of ~nodes nodes (cube of cells), hexahedra or tetrahedra; the middle fifth in z is a
 // sill whose nodes sit inside its crystallisation interval, so latent heat is active there.
-Problem make_problem(double nodes, bool tets)
+// With `linear` the same model has constant k and c and no latent heat: the step is then
+// the data layout alone (rate, one division-free T(E)), for comparison with the full physics.
+Problem make_problem(double nodes, bool tets, bool linear = false)
 {
   const int cells = std::max(2, static_cast<int>(std::lround(std::cbrt(nodes))) - 1);
   const double L = 1000.0;
@@ -146,6 +148,13 @@ Problem make_problem(double nodes, bool tets)
   sill.latent_heat = 4e5;
   sill.solidus = 980;
   sill.liquidus = 1150;
+  if (linear)
+    for (Rock* r : { &host, &sill })
+    {
+      r->conductivity.law = Conductivity::Law::Constant;
+      r->heat_capacity.law = HeatCapacity::Law::Constant;
+      r->latent_heat = 0.0;
+    }
   std::vector<int> rock(p.mesh.n_cells());
   for (std::size_t c = 0; c < rock.size(); ++c)
     rock[c] = p.mesh.cell_region[c];
@@ -384,6 +393,20 @@ void section_step_and_csr(bool step, bool csr)
       }
     if (step)
       figure("step_scaling_2t_over_1t", step_2t / step_1t, "ratio", "mesh=" + mesh_name);
+    double linear_2t = 0.0;
+    if (step)
+    {
+      Problem q = make_problem(nodes, tets, true);
+      for (int threads : kThreadCounts)
+      {
+        const double v = step_throughput(q, threads, quick ? 2 : 15);
+        if (threads == 2)
+          linear_2t = v;
+        figure("step_throughput", v, "node-updates/s",
+          "mesh=" + mesh_name + " threads=" + std::to_string(threads) + size +
+            " integrator=forward-euler physics=constant-k-c,no-latent");
+      }
+    }
     const double bytes = step_bytes_per_node(*p.model, *p.op);
     figure("edges_per_node", double(p.op->edge_entries()) / p.mesh.n_points(), "1",
       "mesh=" + mesh_name);
@@ -428,6 +451,10 @@ void section_step_and_csr(bool step, bool csr)
                step_2t / csr_2t,
                "ratio",
                "mesh=" + mesh_name + " threads=2 target=0.8");
+        figure("step_over_csr_measured",
+               linear_2t / csr_2t,
+               "ratio",
+               "mesh=" + mesh_name + " threads=2 physics=constant-k-c,no-latent");
       }
     }
     if (step)

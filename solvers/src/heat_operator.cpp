@@ -269,7 +269,9 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
     for (std::uint32_t k = start[i]; k < start[i + 1]; ++k)
     {
       const double Tj = T[neighbour[k]];
-      const double G = weight[k] * fit[rock[k]](0.5 * (Ti + Tj));
+      const ConductivityFit& f = fit[rock[k]];
+      // A constant k (q = 0) needs no division; the branch follows runs of one rock.
+      const double G = weight[k] * (f.q == 0.0 ? f.p : f(0.5 * (Ti + Tj)));
       s += G * (Tj - Ti);
       if constexpr (Bound)
       {
