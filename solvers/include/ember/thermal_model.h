@@ -57,8 +57,9 @@ public:
   /**
    * T such that E_i(T) = E [°C]: Newton's method on the monotone E_i from T_guess,
    * safeguarded by the bracket its iterates build, which is bisected whenever a Newton step
-   * leaves it (the kinks at solidus and liquidus make plain Newton cycle). Converges to
-   * ~1e-10 K.
+   * leaves it (the kinks at solidus and liquidus make plain Newton cycle). Stops when a Newton
+   * correction is below 1e-9 (1 + |T|) K, returning the corrected value (in the quadratic
+   * regime far more accurate than that), or when the bracket is below 1e-12 (1 + |T|) K.
    */
   double temperature(std::size_t node, double E, double T_guess) const;
 
