@@ -217,25 +217,30 @@ void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
   // Update and T(E) over one stable step's change of E (with E and T already consistent the
   // Newton iteration would stop at once and flatter the figure); E and T are reset each time.
   const std::vector<double> T_old = p.T, E_old = p.E;
+  std::vector<double> capacity_old(T_old.size()), capacity; // as the previous solve leaves it
+  for (std::size_t i = 0; i < T_old.size(); ++i)
+    capacity_old[i] = p.model->capacity(i, T_old[i]);
   figure("update_and_temperature_throughput",
          n / best_time(repeats,
                        [&]
                        {
                          std::copy(T_old.begin(), T_old.end(), p.T.begin());
                          std::copy(E_old.begin(), E_old.end(), p.E.begin());
+                         capacity = capacity_old;
                          arena.execute([&] {
                            tbb::parallel_for(tbb::blocked_range<std::size_t>(0, p.E.size(), 2048),
                              [&](const tbb::blocked_range<std::size_t>& r) {
                                for (std::size_t i = r.begin(); i != r.end(); ++i)
                                {
                                  p.E[i] += 0.9 * dt * rate[i];
-                                 p.T[i] = p.model->temperature(i, p.E[i], p.T[i]);
+                                 p.T[i] = p.model->temperature_after_change(
+                                   i, p.E[i], E_old[i], T_old[i], capacity[i]);
                                }
                              });
                          });
                        }),
          "node-updates/s",
-         tag + " includes=copy-of-E-and-T");
+         tag + " includes=copy-of-E-T-and-capacity");
   p.T = T_old;
   p.E = E_old;
 }
@@ -316,7 +321,8 @@ double csr_throughput(const Csr& a, int threads, int repeats)
 // write-back; the gathers of T along the edges are assumed to hit cache). Per pass:
 //   rate + stable step: edge start 4, per edge neighbour 4 + weight 8 + rock 1; T 8, source 8,
 //     inverse capacity 8, node kind 1; rate out 16;
-//   update + T(E): rate 8, E in/out 16, T in/out 16, share offset 8, 24 per node share.
+//   update + T(E): rate 8, E in/out 16, T in/out 16, last capacity in/out 16, share offset 4,
+//     24 per node share.
 double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
 {
   const double n = model.n_nodes();
@@ -324,7 +330,7 @@ double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
   const double rate = n * (4 + 8 + 8 + 8 + 1 + 16) + op.edge_entries() * (4.0 + 8 + 1);
-  const double update = n * (8 + 16 + 16 + 8) + shares * 24;
+  const double update = n * (8 + 16 + 16 + 16 + 4) + shares * 24;
   return (rate + update) / n;
 }
 
@@ -348,7 +354,7 @@ StateBytes state_bytes_per_node(const ThermalModel& model, const HeatOperator& o
   b.model = (cells * 4 + slots * 8 + (n + 1) * 4 + shares * sizeof(NodeShare) + n * 16) /
     n; // cell rock, cell-node volumes, share offsets, shares, node volume + source
   b.op = op.bytes_per_node();
-  b.vectors = 8 * 2 + 8 * (kind == IntegratorKind::RKL2 ? 6 : 1); // E, T + integrator
+  b.vectors = 8 * 2 + 8 * (kind == IntegratorKind::RKL2 ? 7 : 2); // E, T + integrator
   return b;
 }
 

@@ -107,9 +107,9 @@ namespace
 // iterations), with a bracket built from the iterates themselves: each Newton step heads for
 // the side not yet seen and never leaves the bracket before both sides are known. Once they
 // are, any step that leaves it is replaced by bisection (the kinks at solidus and liquidus
-// make plain Newton cycle).
+// make plain Newton cycle). C_last is dE/dT at the last iterate evaluated.
 template <class Eval>
-double invert(const Eval& eval, double E_target, double T_guess)
+double invert(const Eval& eval, double E_target, double T_guess, double& C_last)
 {
   double lo = -std::numeric_limits<double>::infinity();
   double hi = std::numeric_limits<double>::infinity();
@@ -117,6 +117,7 @@ double invert(const Eval& eval, double E_target, double T_guess)
   for (int iteration = 0; iteration < 200; ++iteration)
   {
     const auto [E, C] = eval(T);
+    C_last = C;
     const double residual = E - E_target;
     if (residual == 0.0)
       return T;
@@ -140,6 +141,20 @@ struct EnergyAndCapacity
 
 double ThermalModel::temperature(std::size_t node, double E, double T_guess) const
 {
+  double capacity;
+  return temperature(node, E, T_guess, capacity);
+}
+
+double ThermalModel::temperature_after_change(
+  std::size_t node, double E, double E_old, double T_old, double& capacity) const
+{
+  const double guess = capacity > 0.0 ? T_old + (E - E_old) / capacity : T_old;
+  return temperature(node, E, std::isfinite(guess) ? guess : T_old, capacity);
+}
+
+double ThermalModel::temperature(std::size_t node, double E, double T_guess, double& capacity) const
+{
+  capacity = 0.0;
   const auto node_shares = shares(node);
   if (node_shares.empty())
     return T_guess; // unreferenced point: no control volume, keeps its value
@@ -148,16 +163,23 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess) con
   if (node_shares.size() == 1) // most nodes: one rock, E/m = h(T)
   {
     const EnthalpyFit& fit = enthalpy_[node_shares[0].rock];
-    const double h = E / node_shares[0].mass;
+    const double m = node_shares[0].mass;
+    const double h = E / m;
     if (fit.latent == 0.0 && fit.a1 == 0.0 && fit.a2 == 0.0 && fit.a3 == 0.0)
+    {
+      capacity = m * fit.a0;
       return h / fit.a0; // constant c, no latent heat: linear
-    return invert(
+    }
+    double c = 0.0;
+    const double T = invert(
       [&fit](double T) {
         EnergyAndCapacity ec;
         fit.evaluate(T, ec.E, ec.C);
         return ec;
       },
-      h, T_guess);
+      h, T_guess, c);
+    capacity = m * c;
+    return T;
   }
   return invert(
     [&](double T) {
@@ -171,7 +193,7 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess) con
       }
       return ec;
     },
-    E, T_guess);
+    E, T_guess, capacity);
 }
 
 void ThermalModel::set_cell_rock(const std::vector<std::int64_t>& cells, int rock)

@@ -154,6 +154,7 @@ public:
 
 private:
   std::vector<double> rate_;
+  std::vector<double> capacity_; ///< dE/dT of each node's last T(E) solve: its next first guess
 };
 
 /// Recover T from E on every node (parallel, deterministic), keeping held nodes fixed.
