@@ -3,9 +3,11 @@
  * @brief Element operators, lumped nodal volumes and boundary faces of linear 3-D cells.
  *
  * For each cell the geometric stiffness K_ab = ∫ ∇N_a·∇N_b dV (conductivity 1, units m) and
- * the lumped volume shares V_a = ∫ N_a dV (m³) are computed once. Tetrahedra are exact (P1);
- * hexahedra (Q1), wedges and pyramids use Gauss quadrature exact for their basis on affine
- * cells. The conductive heat rate into node a of a cell is then -k_c Σ_b K_ab T_b.
+ * the lumped volume shares V_a = ∫ N_a dV (m³). Tetrahedra are exact (P1); hexahedra (Q1)
+ * take volumes by Gauss quadrature and the stiffness by the vertex rule; wedges and pyramids
+ * use Gauss quadrature exact for their basis on affine cells. The conductive heat rate into
+ * node a of a cell is −k Σ_b K_ab T_b; the heat operator folds K into per-edge weights and
+ * does not keep these matrices (ThermalModel keeps the volumes).
  */
 #pragma once
 
