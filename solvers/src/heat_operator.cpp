@@ -258,9 +258,6 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
   const ThermalModel& model = *model_;
   const std::uint32_t* start = edge_start_.data();
   const std::uint32_t* neighbour = edge_node_.data();
-  const double* weight = edge_weight_.data();
-  const std::uint8_t* rock = edge_rock_.data();
-  const ConductivityFit* fit = fits_.data();
   double worst = 0.0;
   for (std::size_t i = begin; i != end; ++i)
   {
@@ -269,9 +266,7 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
     for (std::uint32_t k = start[i]; k < start[i + 1]; ++k)
     {
       const double Tj = T[neighbour[k]];
-      const ConductivityFit& f = fit[rock[k]];
-      // A constant k (q = 0) needs no division; the branch follows runs of one rock.
-      const double G = weight[k] * (f.q == 0.0 ? f.p : f(0.5 * (Ti + Tj)));
+      const double G = conductance(k, Ti, Tj);
       s += G * (Tj - Ti);
       if constexpr (Bound)
       {
@@ -403,7 +398,7 @@ std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
       for (std::uint32_t k = edge_start_[i]; k < edge_start_[i + 1]; ++k)
       {
         const std::uint32_t j = edge_node_[k];
-        const double G = edge_weight_[k] * fits_[edge_rock_[k]](0.5 * (T[i] + T[j]));
+        const double G = conductance(k, T[i], T[j]);
         diagonal += G;
         if (unknown[j] >= 0)
           entries.emplace_back(row, unknown[j], -G);

@@ -21,12 +21,6 @@ double b(int j)
   return j <= 2 ? 1.0 / 3.0 : double(j * j + j - 2) / (2.0 * j * (j + 1));
 }
 
-// Each stage recovers T(E) in the same pass that updates E; held nodes then get their value.
-void hold_fixed(const HeatOperator& op, std::vector<double>& T)
-{
-  for (const auto& [node, value] : op.fixed_nodes())
-    T[node] = value;
-}
 } // namespace
 
 Rkl2::Rkl2(double tolerance, int max_stages)

@@ -108,16 +108,8 @@ double EnergyLedger::relative_imbalance() const
   return scale > 0.0 ? imbalance() / scale : 0.0;
 }
 
-void update_temperatures(const ThermalModel& model, const HeatOperator& op,
-  const std::vector<double>& E, std::vector<double>& T, tbb::task_arena& arena)
+void hold_fixed(const HeatOperator& op, std::vector<double>& T)
 {
-  arena.execute([&] {
-    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, model.n_nodes(), kGrain),
-      [&](const tbb::blocked_range<std::size_t>& r) {
-        for (std::size_t i = r.begin(); i != r.end(); ++i)
-          T[i] = model.temperature(i, E[i], T[i]);
-      });
-  });
   for (const auto& [node, value] : op.fixed_nodes())
     T[node] = value;
 }
@@ -142,8 +134,7 @@ Integrator::Step ForwardEuler::advance(const ThermalModel& model, const HeatOper
         }
       });
   });
-  for (const auto& [node, value] : op.fixed_nodes())
-    T[node] = value;
+  hold_fixed(op, T);
   return { dt, { power.boundary * dt, power.source * dt }, 1 };
 }
 

@@ -157,6 +157,11 @@ private:
   std::vector<std::uint32_t> flux_nodes_;      ///< nodes on flux-boundary groups, ascending
   mutable std::vector<double> flux_stiffness_; ///< their Σ_b |A_ib| [W/K], same order
   std::size_t flux_index(std::size_t node) const;
+  /// G of edge entry k between nodes at Ti and Tj [W/K]: weight × k_rock(½(Ti + Tj)).
+  double conductance(std::uint32_t k, double Ti, double Tj) const
+  {
+    return edge_weight_[k] * fits_[edge_rock_[k]](0.5 * (Ti + Tj));
+  }
 };
 
 } // namespace ember

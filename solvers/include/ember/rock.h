@@ -79,6 +79,8 @@ struct ConductivityFit
   double k_floor = 0.0;
   double operator()(double T) const
   {
+    if (q == 0.0) // constant k: no division (the heat operator calls this on every edge)
+      return p > k_floor ? p : k_floor;
     const double d = r + s * (T > -100.0 ? T : -100.0);
     const double k = p + q / d;
     return d > 0.0 ? (k > k_floor ? k : k_floor) : k_floor;

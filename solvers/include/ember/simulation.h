@@ -157,9 +157,8 @@ private:
   std::vector<double> capacity_; ///< dE/dT of each node's last T(E) solve: its next first guess
 };
 
-/// Recover T from E on every node (parallel, deterministic), keeping held nodes fixed.
-void update_temperatures(const ThermalModel& model, const HeatOperator& op,
-  const std::vector<double>& E, std::vector<double>& T, tbb::task_arena& arena);
+/// Put the held (fixed-temperature) nodes back at their values after a T(E) pass.
+void hold_fixed(const HeatOperator& op, std::vector<double>& T);
 
 /// Initial nodal temperatures from the state, before emplacements.
 std::vector<double> initial_temperatures(const Mesh& mesh, const InitialState& state);
