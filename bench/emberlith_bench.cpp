@@ -217,9 +217,9 @@ void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
   // Update and T(E) over one stable step's change of E (with E and T already consistent the
   // Newton iteration would stop at once and flatter the figure); E and T are reset each time.
   const std::vector<double> T_old = p.T, E_old = p.E;
-  std::vector<double> capacity_old(T_old.size()), capacity; // as the previous solve leaves it
+  std::vector<double> capacity_old(T_old.size()), capacity; // 1/(dE/dT), as the last solve leaves it
   for (std::size_t i = 0; i < T_old.size(); ++i)
-    capacity_old[i] = p.model->capacity(i, T_old[i]);
+    capacity_old[i] = 1.0 / p.model->capacity(i, T_old[i]);
   figure("update_and_temperature_throughput",
          n / best_time(repeats,
                        [&]
@@ -329,7 +329,11 @@ double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
   double shares = 0;
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
-  const double rate = n * (4 + 8 + 8 + 8 + 1 + 16) + op.edge_entries() * (4.0 + 8 + 1);
+  // Conductivity pass: T, node rock, node k written. Sweep: edge start, mixed-edge start, T,
+  // k, source, 1/C_min, kind, dE/dt written; per edge the neighbour and ½W, and the rock on
+  // the edges with a mixed-rock end.
+  const double rate = n * (8 + 1 + 16) + n * (4 + 4 + 8 + 8 + 8 + 8 + 1 + 16) +
+    op.edge_entries() * (4.0 + 8) + op.mixed_edge_entries() * 1.0;
   const double update = n * (8 + 16 + 16 + 16 + 4) + shares * 24;
   return (rate + update) / n;
 }

@@ -164,13 +164,19 @@ void HeatOperator::build_edges()
   // the full element matrices would be the largest array of the run (~500 B per node on hexes).
   const ElementMatrices em = compute_element_matrices(mesh);
   const std::size_t n = model.n_nodes();
-  if (model.rocks().size() > 256)
-    throw std::invalid_argument("heat operator: at most 256 rock types (" +
-      std::to_string(model.rocks().size()) + " given)");
+  if (model.rocks().size() > kMixedRock)
+    throw std::invalid_argument("heat operator: at most " + std::to_string(kMixedRock) +
+      " rock types (" + std::to_string(model.rocks().size()) + " given)");
   fits_.clear();
   for (const Rock& rock : model.rocks())
     fits_.push_back(conductivity_fit(rock.conductivity));
+  node_rock_.assign(n, kMixedRock);
+  for (std::size_t i = 0; i < n; ++i)
+    if (model.shares(i).size() == 1)
+      node_rock_[i] = static_cast<std::uint8_t>(model.shares(i)[0].rock);
+  node_k_.assign(n, 0.0);
   edge_start_.assign(n + 1, 0);
+  edge_mixed_start_.assign(n, 0);
   edge_node_.clear();
   edge_weight_.clear();
   edge_rock_.clear();
@@ -179,6 +185,7 @@ void HeatOperator::build_edges()
     std::int64_t node;
     int rock;
     double weight;
+    bool mixed; ///< an end is not a single-rock node of this rock
   };
   std::vector<Entry> row;
   const NodeCells cells(mesh);
@@ -195,11 +202,18 @@ void HeatOperator::build_edges()
         em.stiffness.data() + em.stiffness_offsets[slot.cell] + slot.local * m;
       for (std::size_t b = 0; b < m; ++b)
         if (b != slot.local && K[b] != 0.0)
-          row.push_back({ nodes[b], model.cell_rock()[slot.cell], -K[b] });
+        {
+          const int rock = model.cell_rock()[slot.cell];
+          const bool mixed = node_rock_[i] != rock || node_rock_[nodes[b]] != rock;
+          row.push_back({ nodes[b], rock, -0.5 * K[b], mixed });
+        }
     }
     std::stable_sort(row.begin(), row.end(), [](const Entry& x, const Entry& y) {
+      if (x.mixed != y.mixed)
+        return y.mixed;
       return x.node != y.node ? x.node < y.node : x.rock < y.rock;
     });
+    edge_mixed_start_[i] = static_cast<std::uint32_t>(edge_node_.size());
     for (std::size_t k = 0; k < row.size(); ++k)
     {
       if (k > 0 && row[k].node == row[k - 1].node && row[k].rock == row[k - 1].rock)
@@ -207,6 +221,8 @@ void HeatOperator::build_edges()
         edge_weight_.back() += row[k].weight;
         continue;
       }
+      if (!row[k].mixed)
+        edge_mixed_start_[i] = static_cast<std::uint32_t>(edge_node_.size() + 1);
       edge_node_.push_back(static_cast<std::uint32_t>(row[k].node));
       edge_rock_.push_back(static_cast<std::uint8_t>(row[k].rock));
       edge_weight_.push_back(row[k].weight);
@@ -243,12 +259,20 @@ std::size_t HeatOperator::flux_index(std::size_t node) const
     flux_nodes_.begin());
 }
 
+std::size_t HeatOperator::mixed_edge_entries() const
+{
+  std::size_t count = 0;
+  for (std::size_t i = 0; i < edge_mixed_start_.size(); ++i)
+    count += edge_start_[i + 1] - edge_mixed_start_[i];
+  return count;
+}
+
 double HeatOperator::bytes_per_node() const
 {
   const double n = static_cast<double>(model_->n_nodes());
   const double edges = static_cast<double>(edge_node_.size());
-  return (edges * (4 + 8 + 1) + (n + 1) * 4) / n +
-    8 /* inverse capacity */ + 1 /* kind */ +
+  return (edges * (4 + 8 + 1) + (n + 1) * 4) / n + 4 /* mixed start */ +
+    8 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ + 8 /* k */ +
     static_cast<double>(flux_nodes_.size()) * (4 + 8) / n;
 }
 
@@ -257,22 +281,36 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
 {
   const ThermalModel& model = *model_;
   const std::uint32_t* start = edge_start_.data();
+  const std::uint32_t* mixed_start = edge_mixed_start_.data();
   const std::uint32_t* neighbour = edge_node_.data();
+  const double* half_weight = edge_weight_.data();
+  const double* node_k = node_k_.data();
   double worst = 0.0;
   for (std::size_t i = begin; i != end; ++i)
   {
     const double Ti = T[i];
     double s = 0.0, g_sum = 0.0, g_abs = 0.0;
-    for (std::uint32_t k = start[i]; k < start[i + 1]; ++k)
-    {
-      const double Tj = T[neighbour[k]];
-      const double G = conductance(k, Ti, Tj);
+    const auto exchange = [&](double G, double Tj) {
       s += G * (Tj - Ti);
       if constexpr (Bound)
       {
         g_sum += G;
         g_abs += std::abs(G);
       }
+    };
+    // Both ends single-rock: G = ½W (k_i + k_j) from the per-node conductivities, which are
+    // the same numbers conductance() would compute.
+    const double ki = node_k[i];
+    std::uint32_t k = start[i];
+    for (; k < mixed_start[i]; ++k)
+    {
+      const std::uint32_t j = neighbour[k];
+      exchange(half_weight[k] * (ki + node_k[j]), T[j]);
+    }
+    for (; k < start[i + 1]; ++k)
+    {
+      const double Tj = T[neighbour[k]];
+      exchange(conductance(k, Ti, Tj), Tj);
     }
     if constexpr (Rate)
       dEdt[i] = s + model.node_source(i);
@@ -287,6 +325,14 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
   return worst;
 }
 
+void HeatOperator::update_node_conductivity(
+  const double* T, std::size_t begin, std::size_t end) const
+{
+  for (std::size_t i = begin; i != end; ++i)
+    if (node_rock_[i] != kMixedRock)
+      node_k_[i] = fits_[node_rock_[i]](T[i]);
+}
+
 template <bool Bound, bool Rate>
 double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>& dEdt,
   tbb::task_arena& arena) const
@@ -296,6 +342,10 @@ double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>
     dEdt.resize(n);
   // A max is exact under any partition, so the bound does not depend on the thread count.
   return arena.execute([&] {
+    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
+      [&](const tbb::blocked_range<std::size_t>& r) {
+        update_node_conductivity(T.data(), r.begin(), r.end());
+      });
     return tbb::parallel_reduce(
       tbb::blocked_range<std::size_t>(0, n, kGrain), 0.0,
       [&](const tbb::blocked_range<std::size_t>& r, double w) {

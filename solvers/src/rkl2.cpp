@@ -124,7 +124,7 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
   last_tau_ = tau;
 
   y0_ = E;
-  capacity_.resize(n, 0.0); // a stale capacity only makes a worse first guess
+  inverse_capacity_.resize(n, 0.0); // a stale one only makes a worse first guess
   d_prev_.assign(n, 0.0);  // D_{j-1}
   d_prev2_.assign(n, 0.0); // D_{j-2}, overwritten in place by D_j
   // The tallies follow the same recursion as D (they are Σ_i of its rate terms), so the heat
@@ -143,7 +143,7 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
                           {
                             d_prev_[i] = mu1 * tau * rate0_[i];
                             E[i] = y0_[i] + d_prev_[i];
-                            T[i] = model.temperature_after_change(i, E[i], y0_[i], T[i], capacity_[i]);
+                            T[i] = model.temperature_after_change(i, E[i], y0_[i], T[i], inverse_capacity_[i]);
                           }
                         });
     });
@@ -171,7 +171,7 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
                               d_prev2_[i] = d;
                               const double E_old = E[i];
                               E[i] = y0_[i] + d;
-                              T[i] = model.temperature_after_change(i, E[i], E_old, T[i], capacity_[i]);
+                              T[i] = model.temperature_after_change(i, E[i], E_old, T[i], inverse_capacity_[i]);
                             }
                           });
       });

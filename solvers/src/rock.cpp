@@ -2,6 +2,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
+#include <vector>
 #include <sstream>
 
 namespace ember
@@ -130,6 +132,51 @@ double conductivity(const Rock& rock, double T)
   return conductivity_fit(rock.conductivity)(T);
 }
 
+namespace
+{
+// Extremes of the sensible capacity c(t) = a0 + 2a1 t + 3a2 t² + 4a3 t³ and of its slope
+// c'(t) = 2a1 + 6a2 t + 12a3 t² over [t_lo, t_hi] (c is held constant outside, c' is 0 there):
+// each is reached at an end or where its own derivative vanishes.
+void set_newton_bounds(EnthalpyFit& fit)
+{
+  const bool cubic = fit.a1 != 0.0 || fit.a2 != 0.0 || fit.a3 != 0.0;
+  if (!cubic)
+  {
+    fit.capacity_floor = fit.a0;
+    fit.curvature_bound = 0.0;
+    return;
+  }
+  if (!(std::isfinite(fit.t_lo) && std::isfinite(fit.t_hi) && fit.t_lo < 1e299 && fit.t_hi < 1e299))
+  {
+    fit.capacity_floor = 0.0; // unbounded polynomial: no bound, Newton iterates to the end
+    return;
+  }
+  const auto slope = [&](double t) { return 2.0 * fit.a1 + t * (6.0 * fit.a2 + t * 12.0 * fit.a3); };
+  std::vector<double> c_points{ fit.t_lo, fit.t_hi }, slope_points{ fit.t_lo, fit.t_hi };
+  if (fit.a3 != 0.0)
+    slope_points.push_back(-fit.a2 / (4.0 * fit.a3)); // vertex of c'
+  // Roots of c' (candidates for c's extremes).
+  const double qa = 12.0 * fit.a3, qb = 6.0 * fit.a2, qc = 2.0 * fit.a1;
+  if (qa == 0.0 && qb != 0.0)
+    c_points.push_back(-qc / qb);
+  else if (qa != 0.0 && qb * qb - 4.0 * qa * qc >= 0.0)
+  {
+    const double root = std::sqrt(qb * qb - 4.0 * qa * qc);
+    c_points.push_back((-qb + root) / (2.0 * qa));
+    c_points.push_back((-qb - root) / (2.0 * qa));
+  }
+  double c_min = std::numeric_limits<double>::infinity(), slope_max = 0.0;
+  for (double t : c_points)
+    if (t >= fit.t_lo && t <= fit.t_hi)
+      c_min = std::min(c_min, fit.sensible_capacity(t));
+  for (double t : slope_points)
+    if (t >= fit.t_lo && t <= fit.t_hi)
+      slope_max = std::max(slope_max, std::abs(slope(t)));
+  fit.capacity_floor = c_min > 0.0 ? c_min : 0.0;
+  fit.curvature_bound = slope_max;
+}
+} // namespace
+
 EnthalpyFit enthalpy_fit(const Rock& rock)
 {
   EnthalpyFit fit;
@@ -151,8 +198,10 @@ EnthalpyFit enthalpy_fit(const Rock& rock)
   {
     fit.latent = rock.latent_heat;
     fit.solidus = rock.solidus;
+    fit.liquidus = rock.liquidus;
     fit.inverse_interval = 1.0 / (rock.liquidus - rock.solidus);
   }
+  set_newton_bounds(fit);
   return fit;
 }
 

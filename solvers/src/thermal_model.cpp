@@ -107,9 +107,11 @@ namespace
 // iterations), with a bracket built from the iterates themselves: each Newton step heads for
 // the side not yet seen and never leaves the bracket before both sides are known. Once they
 // are, any step that leaves it is replaced by bisection (the kinks at solidus and liquidus
-// make plain Newton cycle). C_last is dE/dT at the last iterate evaluated.
-template <class Eval>
-double invert(const Eval& eval, double E_target, double T_guess, double& C_last)
+// make plain Newton cycle). inverse_C is 1/(dE/dT) at the last iterate evaluated.
+// settled(T, residual, C) may declare the Newton step from T final without evaluating at its end.
+template <class Eval, class Settled>
+double invert(
+  const Eval& eval, const Settled& settled, double E_target, double T_guess, double& inverse_C)
 {
   double lo = -std::numeric_limits<double>::infinity();
   double hi = std::numeric_limits<double>::infinity();
@@ -117,12 +119,14 @@ double invert(const Eval& eval, double E_target, double T_guess, double& C_last)
   for (int iteration = 0; iteration < 200; ++iteration)
   {
     const auto [E, C] = eval(T);
-    C_last = C;
+    inverse_C = 1.0 / C;
     const double residual = E - E_target;
     if (residual == 0.0)
       return T;
     (residual > 0.0 ? hi : lo) = T;
-    const double newton = T - residual / C;
+    const double newton = T - residual * inverse_C;
+    if (settled(T, residual, C))
+      return newton;
     if (!(newton > lo && newton < hi) && !(std::isfinite(lo) && std::isfinite(hi)))
       return T; // correction below round-off (newton == T) before both sides are known
     const double next = (newton > lo && newton < hi) ? newton : 0.5 * (lo + hi);
@@ -141,45 +145,54 @@ struct EnergyAndCapacity
 
 double ThermalModel::temperature(std::size_t node, double E, double T_guess) const
 {
-  double capacity;
-  return temperature(node, E, T_guess, capacity);
+  double inverse_capacity = 0.0;
+  return solve_temperature(node, E, T_guess, inverse_capacity);
 }
 
 double ThermalModel::temperature_after_change(
-  std::size_t node, double E, double E_old, double T_old, double& capacity) const
+  std::size_t node, double E, double E_old, double T_old, double& inverse_capacity) const
 {
-  const double guess = capacity > 0.0 ? T_old + (E - E_old) / capacity : T_old;
-  return temperature(node, E, std::isfinite(guess) ? guess : T_old, capacity);
+  const double guess = T_old + (E - E_old) * inverse_capacity;
+  return solve_temperature(node, E, std::isfinite(guess) ? guess : T_old, inverse_capacity);
 }
 
-double ThermalModel::temperature(std::size_t node, double E, double T_guess, double& capacity) const
+double ThermalModel::solve_temperature(
+  std::size_t node, double E, double T_guess, double& inverse_capacity) const
 {
-  capacity = 0.0;
+  inverse_capacity = 0.0;
   const auto node_shares = shares(node);
   if (node_shares.empty())
     return T_guess; // unreferenced point: no control volume, keeps its value
   if (!std::isfinite(E))
     return E;
-  if (node_shares.size() == 1) // most nodes: one rock, E/m = h(T)
+  if (node_shares.size() == 1) // most nodes: one rock, E = m h(T)
   {
     const EnthalpyFit& fit = enthalpy_[node_shares[0].rock];
     const double m = node_shares[0].mass;
-    const double h = E / m;
     if (fit.latent == 0.0 && fit.a1 == 0.0 && fit.a2 == 0.0 && fit.a3 == 0.0)
     {
-      capacity = m * fit.a0;
-      return h / fit.a0; // constant c, no latent heat: linear
+      inverse_capacity = 1.0 / (m * fit.a0);
+      return E * inverse_capacity; // constant c, no latent heat: linear
     }
-    double c = 0.0;
-    const double T = invert(
-      [&fit](double T) {
+    // Newton's step from T lands within m·curvature_bound·r² / (2 C F²) of the root, F =
+    // m·capacity_floor ≤ dE/dT (Taylor's theorem; valid when no solidus or liquidus lies
+    // within |r| / F of T, the farthest the root can be). When that is already below the
+    // stopping tolerance, E is not evaluated again: after a first guess from the last step's
+    // capacity, most nodes need one evaluation. Multiplied out: no division.
+    const double floor = m * fit.capacity_floor, curvature = m * fit.curvature_bound;
+    const auto settled = [&fit, floor, curvature](double T, double r, double C) {
+      return floor > 0.0 && fit.kink_distance(T) * floor > std::abs(r) &&
+        curvature * r * r <= 2e-9 * (1.0 + std::abs(T)) * C * floor * floor;
+    };
+    return invert(
+      [&fit, m](double T) {
         EnergyAndCapacity ec;
         fit.evaluate(T, ec.E, ec.C);
+        ec.E *= m;
+        ec.C *= m;
         return ec;
       },
-      h, T_guess, c);
-    capacity = m * c;
-    return T;
+      settled, E, T_guess, inverse_capacity);
   }
   return invert(
     [&](double T) {
@@ -193,7 +206,7 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess, dou
       }
       return ec;
     },
-    E, T_guess, capacity);
+    [](double, double, double) { return false; }, E, T_guess, inverse_capacity);
 }
 
 void ThermalModel::set_cell_rock(const std::vector<std::int64_t>& cells, int rock)

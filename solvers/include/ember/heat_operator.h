@@ -6,10 +6,11 @@
  *
  * Conduction runs over the mesh edges. Element stiffness rows sum to zero, so a cell's
  * −k Σ_b K^c_ab T_b equals Σ_{b≠a} k (−K^c_ab)(T_b − T_a): node i exchanges heat with each
- * node j it shares a cell with through the conductance G_ij = Σ_r k_r(½(T_i + T_j)) W^r_ij,
+ * node j it shares a cell with through the conductance G_ij = Σ_r ½(k_r(T_i) + k_r(T_j)) W^r_ij,
  * where W^r_ij = Σ (−K^c_ij) over the cells of rock r holding that edge [m]. With constant
- * k this is exactly the finite-element operator; with k(T), k is taken at the edge's mean
- * temperature (not the cell's), per rock, so material contrasts stay sharp. G_ij = G_ji
+ * k this is exactly the finite-element operator; with k(T), k is the mean of its values at
+ * the edge's two ends, per rock, so material contrasts stay sharp, and each node's k is
+ * evaluated once per rate rather than once per edge. G_ij = G_ji
  * bit for bit, so every exchange conserves heat. Boundary fluxes q_f (into
  * the body, W/m²) per surface group: radiation −εσ(T⁴ − T_sky⁴) (T in K), convection
  * −h(T − T_fluid), both, a prescribed heat flow, or insulated. Fixed-temperature nodes are
@@ -102,6 +103,8 @@ public:
 
   /// Directed edge entries (node pairs sharing a cell, per rock) over all nodes.
   std::size_t edge_entries() const { return edge_node_.size(); }
+  /// Those of them with an end that is not a single-rock node of the edge's rock.
+  std::size_t mixed_edge_entries() const;
   /// Bytes this operator keeps per node (edges, capacities, flags; boundary groups apart).
   double bytes_per_node() const;
 
@@ -148,19 +151,27 @@ private:
   std::vector<double> inverse_capacity_;
   double source_total_ = 0.0;        ///< Σ radiogenic heat of the free nodes [W]
   /// Node i's edges at [edge_start_[i], edge_start_[i+1]), sorted by (neighbour, rock): the
-  /// fixed summation order behind thread-count independence.
+  /// fixed summation order behind thread-count independence. Edges between two single-rock
+  /// nodes come first, up to edge_mixed_start_[i]: their ends' k are node_k_ entries.
   std::vector<std::uint32_t> edge_start_;
+  std::vector<std::uint32_t> edge_mixed_start_;
   std::vector<std::uint32_t> edge_node_;
-  std::vector<double> edge_weight_;      ///< W^r_ij [m]
+  std::vector<double> edge_weight_;      ///< ½ W^r_ij [m]
   std::vector<std::uint8_t> edge_rock_;  ///< r
   std::vector<ConductivityFit> fits_;    ///< per rock
+  static constexpr std::uint8_t kMixedRock = 255;
+  std::vector<std::uint8_t> node_rock_;  ///< the rock of single-rock nodes, else kMixedRock
+  mutable std::vector<double> node_k_;   ///< k_rock(T_i) of single-rock nodes, per rate call
   std::vector<std::uint32_t> flux_nodes_;      ///< nodes on flux-boundary groups, ascending
   mutable std::vector<double> flux_stiffness_; ///< their Σ_b |A_ib| [W/K], same order
   std::size_t flux_index(std::size_t node) const;
-  /// G of edge entry k between nodes at Ti and Tj [W/K]: weight × k_rock(½(Ti + Tj)).
+  /// k of every single-rock node at T (the sweep's per-node conductivities).
+  void update_node_conductivity(const double* T, std::size_t begin, std::size_t end) const;
+  /// G of edge entry k between nodes at Ti and Tj [W/K]: ½W × (k_rock(Ti) + k_rock(Tj)).
   double conductance(std::uint32_t k, double Ti, double Tj) const
   {
-    return edge_weight_[k] * fits_[edge_rock_[k]](0.5 * (Ti + Tj));
+    const ConductivityFit& fit = fits_[edge_rock_[k]];
+    return edge_weight_[k] * (fit(Ti) + fit(Tj));
   }
 };
 

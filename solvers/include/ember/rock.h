@@ -10,6 +10,7 @@
  */
 #pragma once
 
+#include <algorithm>
 #include <stdexcept>
 #include <string>
 
@@ -100,6 +101,19 @@ struct EnthalpyFit
   double a0 = 0.0, a1 = 0.0, a2 = 0.0, a3 = 0.0;
   double t_lo = -1e300, t_hi = 1e300;
   double latent = 0.0, solidus = 0.0, inverse_interval = 0.0;
+  double liquidus = 0.0;
+  /// Bounds for T(E)'s Newton error: dh/dT ≥ capacity_floor > 0 everywhere, and
+  /// |d²h/dT²| ≤ curvature_bound away from solidus and liquidus (where dh/dT jumps).
+  double capacity_floor = 0.0, curvature_bound = 0.0;
+
+  /// Distance from T to the nearest jump of dh/dT (solidus or liquidus) [K].
+  double kink_distance(double T) const
+  {
+    if (latent == 0.0)
+      return 1e300;
+    const double a = T - solidus, b = T - liquidus;
+    return std::min(a < 0.0 ? -a : a, b < 0.0 ? -b : b);
+  }
 
   double sensible_capacity(double T) const
   {

@@ -154,7 +154,7 @@ public:
 
 private:
   std::vector<double> rate_;
-  std::vector<double> capacity_; ///< dE/dT of each node's last T(E) solve: its next first guess
+  std::vector<double> inverse_capacity_; ///< 1/(dE/dT) from each node's last T(E) solve: its next first guess
 };
 
 /// Put the held (fixed-temperature) nodes back at their values after a T(E) pass.

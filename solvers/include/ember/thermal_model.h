@@ -62,23 +62,25 @@ public:
    * regime far more accurate than that), or when the bracket is below 1e-12 (1 + |T|) K.
    */
   double temperature(std::size_t node, double E, double T_guess) const;
-  /// As above; also returns dE_i/dT [J/K] at (nearly) the returned temperature.
-  double temperature(std::size_t node, double E, double T_guess, double& capacity) const;
   /**
    * T(E) after E_old → E at a node that was at T_old, starting Newton from the first-order
-   * guess T_old + (E − E_old)/capacity, where `capacity` is what the previous solve returned
-   * (0: start from T_old); updated in place. The guess saves about one enthalpy evaluation per
-   * node per step (2.7 → 1.5 on the benchmark model, bench/README.md); the result is the same
-   * solve, only reached sooner.
+   * guess T_old + (E − E_old) · inverse_capacity, where `inverse_capacity` is 1/(dE_i/dT)
+   * as the previous solve returned it (0: start from T_old); updated in place. With the
+   * guess, most nodes converge on one enthalpy evaluation (bench/README.md); the result is
+   * the same solve, only reached sooner. On single-rock nodes Newton stops as soon as
+   * Taylor's bound on the error after its step (from the rock's curvature and capacity
+   * bounds, EnthalpyFit) is within the tolerance.
    */
   double temperature_after_change(
-    std::size_t node, double E, double E_old, double T_old, double& capacity) const;
+    std::size_t node, double E, double E_old, double T_old, double& inverse_capacity) const;
 
   /// Change the rock of the listed cells (an emplacement); node shares are rebuilt.
   void set_cell_rock(const std::vector<std::int64_t>& cells, int rock);
 
 private:
   void build_shares();
+  double solve_temperature(std::size_t node, double E, double T_guess,
+    double& inverse_capacity) const;
 
   const Mesh* mesh_;
   std::vector<double> cell_node_volume_;
