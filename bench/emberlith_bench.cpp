@@ -8,6 +8,7 @@
 // Usage: emberlith-bench [--quick] [--section NAME]...
 //   --quick      small sizes (seconds; used by the ctest smoke test)
 //   --section    stream | step | csr | growth | memory | sill (repeatable; default all)
+//                | profile (only when named: 300 full-physics steps per mesh, for perf record)
 #include "ember/integrators.h"
 #include "ember/rkl2.h"
 #include "ember/simulation.h"
@@ -577,6 +578,22 @@ void section_sill()
     figure("sill_contact_theta_error", contact, "1", tag + " target=0.01");
   }
 }
+// No figures: the step alone, long enough for a sampling profiler to see inside it
+// (`perf record -F 999 emberlith-bench --section profile`).
+void section_profile()
+{
+  for (bool tets : { false, true })
+  {
+    Problem p = make_problem(quick ? 1e5 : 1e6, tets);
+    tbb::task_arena arena(2);
+    ForwardEuler fe;
+    const auto start = Clock::now();
+    for (int s = 0; s < 300; ++s)
+      fe.advance(*p.model, *p.op, 1e15, 0.9, p.E, p.T, arena);
+    std::printf("# profile %s: 300 steps in %.2f s\n", tets ? "tet" : "hex",
+                std::chrono::duration<double>(Clock::now() - start).count());
+  }
+}
 } // namespace
 
 int main(int argc, char** argv)
@@ -591,9 +608,15 @@ int main(int argc, char** argv)
     else
     {
       std::fprintf(
-        stderr, "usage: %s [--quick] [--section stream|step|csr|growth|memory|sill]...\n", argv[0]);
+        stderr, "usage: %s [--quick] [--section stream|step|csr|growth|memory|sill|profile]...\n", argv[0]);
       return 2;
     }
+  }
+  const bool profile = sections.erase("profile") > 0;
+  if (profile && sections.empty())
+  {
+    section_profile();
+    return 0;
   }
   auto want = [&](const char* s) { return sections.empty() || sections.count(s) > 0; };
   std::printf("# emberlith-bench%s: one 'figure' line per measured figure (bench/README.md)\n",
@@ -618,5 +641,7 @@ int main(int argc, char** argv)
     section_growth();
   if (want("sill"))
     section_sill();
+  if (profile)
+    section_profile();
   return 0;
 }

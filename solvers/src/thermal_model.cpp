@@ -67,12 +67,6 @@ void ThermalModel::build_shares()
   }
 }
 
-std::span<const NodeShare> ThermalModel::shares(std::size_t node) const
-{
-  return { shares_.data() + share_offsets_[node],
-    static_cast<std::size_t>(share_offsets_[node + 1] - share_offsets_[node]) };
-}
-
 double ThermalModel::energy(std::size_t node, double T) const
 {
   double E = 0.0;
@@ -149,13 +143,6 @@ double ThermalModel::temperature(std::size_t node, double E, double T_guess) con
   return solve_temperature(node, E, T_guess, inverse_capacity);
 }
 
-double ThermalModel::temperature_after_change(
-  std::size_t node, double E, double E_old, double T_old, double& inverse_capacity) const
-{
-  const double guess = T_old + (E - E_old) * inverse_capacity;
-  return solve_temperature(node, E, std::isfinite(guess) ? guess : T_old, inverse_capacity);
-}
-
 double ThermalModel::solve_temperature(
   std::size_t node, double E, double T_guess, double& inverse_capacity) const
 {
@@ -169,20 +156,8 @@ double ThermalModel::solve_temperature(
   {
     const EnthalpyFit& fit = enthalpy_[node_shares[0].rock];
     const double m = node_shares[0].mass;
-    if (fit.latent == 0.0 && fit.a1 == 0.0 && fit.a2 == 0.0 && fit.a3 == 0.0)
-    {
-      inverse_capacity = 1.0 / (m * fit.a0);
-      return E * inverse_capacity; // constant c, no latent heat: linear
-    }
-    // Newton's step from T lands within m·curvature_bound·r² / (2 C F²) of the root, F =
-    // m·capacity_floor ≤ dE/dT (Taylor's theorem; valid when no solidus or liquidus lies
-    // within |r| / F of T, the farthest the root can be). When that is already below the
-    // stopping tolerance, E is not evaluated again: after a first guess from the last step's
-    // capacity, most nodes need one evaluation. Multiplied out: no division.
-    const double floor = m * fit.capacity_floor, curvature = m * fit.curvature_bound;
-    const auto settled = [&fit, floor, curvature](double T, double r, double C) {
-      return floor > 0.0 && fit.kink_distance(T) * floor > std::abs(r) &&
-        curvature * r * r <= 2e-9 * (1.0 + std::abs(T)) * C * floor * floor;
+    const auto settled = [&fit, m](double T, double r, double C) {
+      return newton_settled(fit, m, T, r, C);
     };
     return invert(
       [&fit, m](double T) {

@@ -15,6 +15,7 @@
 #include "ember/node_cells.h"
 #include "ember/rock.h"
 
+#include <cmath>
 #include <cstdint>
 #include <vector>
 
@@ -44,7 +45,11 @@ public:
   std::size_t n_nodes() const { return mesh_->n_points(); }
 
   /// Shares of node i (the rock types of its cells, ascending by first appearance).
-  std::span<const NodeShare> shares(std::size_t node) const;
+  std::span<const NodeShare> shares(std::size_t node) const
+  {
+    return { shares_.data() + share_offsets_[node],
+      static_cast<std::size_t>(share_offsets_[node + 1] - share_offsets_[node]) };
+  }
   double node_volume(std::size_t node) const { return node_volume_[node]; }
   /// Radiogenic heat production of the node's control volume [W].
   double node_source(std::size_t node) const { return node_source_[node]; }
@@ -72,7 +77,21 @@ public:
    * bounds, EnthalpyFit) is within the tolerance.
    */
   double temperature_after_change(
-    std::size_t node, double E, double E_old, double T_old, double& inverse_capacity) const;
+    std::size_t node, double E, double E_old, double T_old, double& inverse_capacity) const
+  {
+    const double guess = T_old + (E - E_old) * inverse_capacity;
+    // Inline: one Newton step on a single-rock node, the path nearly every node takes.
+    if (share_offsets_[node + 1] - share_offsets_[node] == 1)
+    {
+      const NodeShare& share = shares_[share_offsets_[node]];
+      double T;
+      if (settled_newton_step(enthalpy_[share.rock], share.mass, E, guess, T, inverse_capacity))
+        return T;
+      if (std::isfinite(T)) // not settled (near a solidus or liquidus): iterate on from there
+        return solve_temperature(node, E, T, inverse_capacity);
+    }
+    return solve_temperature(node, E, std::isfinite(guess) ? guess : T_old, inverse_capacity);
+  }
 
   /// Change the rock of the listed cells (an emplacement); node shares are rebuilt.
   void set_cell_rock(const std::vector<std::int64_t>& cells, int rock);
@@ -81,6 +100,31 @@ private:
   void build_shares();
   double solve_temperature(std::size_t node, double E, double T_guess,
     double& inverse_capacity) const;
+  /**
+   * Whether the Newton step from T (residual r = E(T) − E, C = dE/dT at T) on a node of one
+   * rock of mass m lands within the stopping tolerance 1e-9 (1 + |T|) of the root. The error
+   * after the step is at most m·curvature_bound·r² / (2 C F²) with F = m·capacity_floor ≤
+   * dE/dT (Taylor's theorem), valid when no solidus or liquidus lies within |r| / F of T, the
+   * farthest the root can be. Multiplied out: no division.
+   */
+  static bool newton_settled(const EnthalpyFit& fit, double m, double T, double r, double C)
+  {
+    const double floor = m * fit.capacity_floor;
+    return floor > 0.0 && fit.kink_distance(T) * floor > std::abs(r) &&
+      m * fit.curvature_bound * r * r <= 2e-9 * (1.0 + std::abs(T)) * C * floor * floor;
+  }
+  /// One Newton step for m h(T) = E from T_guess: sets T and inverse_capacity (1/(dE/dT) at
+  /// T_guess); true if newton_settled.
+  static bool settled_newton_step(const EnthalpyFit& fit, double m, double E, double T_guess,
+    double& T, double& inverse_capacity)
+  {
+    double h, c;
+    fit.evaluate(T_guess, h, c);
+    const double r = m * h - E, C = m * c;
+    inverse_capacity = 1.0 / C;
+    T = T_guess - r * inverse_capacity;
+    return newton_settled(fit, m, T_guess, r, C);
+  }
 
   const Mesh* mesh_;
   std::vector<double> cell_node_volume_;
