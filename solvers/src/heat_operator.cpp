@@ -150,7 +150,7 @@ HeatOperator::HeatOperator(const ThermalModel& model, std::vector<BoundaryCondit
   for (const auto& [node, T] : fixed_)
     node_kind_[node] = kHeld;
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
-    if (node_kind_[i] == kFluxFace)
+    if (node_kind_[i] & kFluxFace)
       flux_nodes_.push_back(static_cast<std::uint32_t>(i));
   flux_stiffness_.resize(flux_nodes_.size());
   refresh();
@@ -231,6 +231,10 @@ void HeatOperator::build_edges()
       throw std::invalid_argument("mesh too large for the heat operator: more than 2^32 - 1 "
                                   "node-to-node couplings");
     edge_start_[i + 1] = static_cast<std::uint32_t>(edge_node_.size());
+    node_kind_[i] &= static_cast<std::uint8_t>(~kSignedWeights);
+    for (std::uint32_t k = edge_start_[i]; k < edge_start_[i + 1]; ++k)
+      if (edge_weight_[k] < 0.0)
+        node_kind_[i] |= kSignedWeights;
   }
 }
 
@@ -244,9 +248,9 @@ void HeatOperator::refresh()
     double min_capacity = 0.0;
     for (const NodeShare& s : model.shares(i))
       min_capacity += s.mass * min_heat_capacity(model.rocks()[s.rock], -100.0, 3000.0);
-    if (node_kind_[i] != kHeld && min_capacity > 0.0)
+    if (!(node_kind_[i] & kHeld) && min_capacity > 0.0)
       inverse_capacity_[i] = 1.0 / min_capacity;
-    if (node_kind_[i] != kHeld)
+    if (!(node_kind_[i] & kHeld))
       source_total_ += model.node_source(i);
   }
   build_edges();
@@ -290,12 +294,15 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
   {
     const double Ti = T[i];
     double s = 0.0, g_sum = 0.0, g_abs = 0.0;
+    // With no negative weight at the node (bricks, non-obtuse tetrahedra), Σ|G| = ΣG.
+    const bool signed_weights = Bound && (node_kind_[i] & kSignedWeights);
     const auto exchange = [&](double G, double Tj) {
       s += G * (Tj - Ti);
       if constexpr (Bound)
       {
         g_sum += G;
-        g_abs += std::abs(G);
+        if (signed_weights)
+          g_abs += std::abs(G);
       }
     };
     // Both ends single-rock: G = ½W (k_i + k_j) from the per-node conductivities, which are
@@ -316,9 +323,10 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
       dEdt[i] = s + model.node_source(i);
     if constexpr (Bound)
     {
-      const double stiffness = std::abs(g_sum) + g_abs; // |A_ii| + Σ_j |A_ij|
+      // |A_ii| + Σ_j |A_ij|
+      const double stiffness = signed_weights ? std::abs(g_sum) + g_abs : 2.0 * g_sum;
       worst = std::max(worst, stiffness * inverse_capacity_[i]);
-      if (node_kind_[i] == kFluxFace) // rare: a search is cheaper than a per-node array
+      if (node_kind_[i] & kFluxFace) // rare: a search is cheaper than a per-node array
         flux_stiffness_[flux_index(i)] = stiffness;
     }
   }
@@ -364,7 +372,7 @@ double HeatOperator::conduct(const std::vector<double>& T, std::vector<double>& 
   tally = {};
   for (const Group& g : groups_)
     for (const NodeArea& na : g.nodes)
-      if (node_kind_[na.node] != kHeld)
+      if (!(node_kind_[na.node] & kHeld))
       {
         const double q = na.area * face_flux(g.bc, na.emissivity, T[na.node]);
         dEdt[na.node] += q;
@@ -384,7 +392,7 @@ double HeatOperator::stable_step_from(double worst, const std::vector<double>& T
 {
   for (const Group& g : groups_)
     for (const NodeArea& na : g.nodes)
-      if (node_kind_[na.node] != kHeld)
+      if (!(node_kind_[na.node] & kHeld))
         flux_stiffness_[flux_index(na.node)] +=
           na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
   for (std::size_t k = 0; k < flux_nodes_.size(); ++k) // after all groups: complete
@@ -432,7 +440,7 @@ std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
   std::vector<std::int64_t> unknown(n, -1);
   std::int64_t m = 0;
   for (std::size_t i = 0; i < n; ++i)
-    if (node_kind_[i] != kHeld && model.node_volume(i) > 0.0)
+    if (!(node_kind_[i] & kHeld) && model.node_volume(i) > 0.0)
       unknown[i] = m++;
   for (int iteration = 0; iteration < 100; ++iteration)
   {

@@ -135,11 +135,12 @@ private:
   double stable_step_from(double interior_worst, const std::vector<double>& T) const;
   void build_edges();
 
-  enum NodeKind : std::uint8_t
+  enum NodeKind : std::uint8_t // bit flags
   {
     kInterior = 0,
-    kHeld = 1,     ///< fixed temperature
-    kFluxFace = 2  ///< on a radiation / convection / heat-flow boundary group
+    kHeld = 1,          ///< fixed temperature
+    kFluxFace = 2,      ///< on a radiation / convection / heat-flow boundary group
+    kSignedWeights = 4  ///< has a negative edge weight (obtuse cells): Σ|G| ≠ ΣG
   };
 
   const ThermalModel* model_;
