@@ -330,10 +330,10 @@ double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
   double shares = 0;
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
-  // Conductivity pass: T, node rock, node k written. Sweep: edge start, mixed-edge start, T,
-  // k, source, 1/C_min, kind, dE/dt written; per edge the neighbour and ½W, and the rock on
-  // the edges with a mixed-rock end.
-  const double rate = n * (8 + 1 + 16) + n * (4 + 4 + 8 + 8 + 8 + 8 + 1 + 16) +
+  // Conductivity pass: T, node rock, (T, k) pairs written. Sweep: edge start, mixed-edge
+  // start, (T, k), source, 1/C_min, kind, dE/dt written; per edge the neighbour and ½W, and
+  // the rock on the edges with a mixed-rock end.
+  const double rate = n * (8 + 1 + 32) + n * (4 + 4 + 16 + 8 + 8 + 1 + 16) +
     op.edge_entries() * (4.0 + 8) + op.mixed_edge_entries() * 1.0;
   const double update = n * (8 + 16 + 16 + 16 + 4) + shares * 24;
   return (rate + update) / n;

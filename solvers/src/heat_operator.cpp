@@ -174,7 +174,7 @@ void HeatOperator::build_edges()
   for (std::size_t i = 0; i < n; ++i)
     if (model.shares(i).size() == 1)
       node_rock_[i] = static_cast<std::uint8_t>(model.shares(i)[0].rock);
-  node_k_.assign(n, 0.0);
+  node_tk_.assign(n, {});
   edge_start_.assign(n + 1, 0);
   edge_mixed_start_.assign(n, 0);
   edge_node_.clear();
@@ -276,23 +276,23 @@ double HeatOperator::bytes_per_node() const
   const double n = static_cast<double>(model_->n_nodes());
   const double edges = static_cast<double>(edge_node_.size());
   return (edges * (4 + 8 + 1) + (n + 1) * 4) / n + 4 /* mixed start */ +
-    8 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ + 8 /* k */ +
+    8 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ + 16 /* T, k */ +
     static_cast<double>(flux_nodes_.size()) * (4 + 8) / n;
 }
 
 template <bool Bound, bool Rate>
-double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std::size_t end) const
+double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) const
 {
   const ThermalModel& model = *model_;
   const std::uint32_t* start = edge_start_.data();
   const std::uint32_t* mixed_start = edge_mixed_start_.data();
   const std::uint32_t* neighbour = edge_node_.data();
   const double* half_weight = edge_weight_.data();
-  const double* node_k = node_k_.data();
+  const NodeTK* tk = node_tk_.data();
   double worst = 0.0;
   for (std::size_t i = begin; i != end; ++i)
   {
-    const double Ti = T[i];
+    const double Ti = tk[i].T;
     double s = 0.0, g_sum = 0.0, g_abs = 0.0;
     // With no negative weight at the node (bricks, non-obtuse tetrahedra), Σ|G| = ΣG.
     const bool signed_weights = Bound && (node_kind_[i] & kSignedWeights);
@@ -307,16 +307,16 @@ double HeatOperator::sweep(const double* T, double* dEdt, std::size_t begin, std
     };
     // Both ends single-rock: G = ½W (k_i + k_j) from the per-node conductivities, which are
     // the same numbers conductance() would compute.
-    const double ki = node_k[i];
+    const double ki = tk[i].k;
     std::uint32_t k = start[i];
     for (; k < mixed_start[i]; ++k)
     {
       const std::uint32_t j = neighbour[k];
-      exchange(half_weight[k] * (ki + node_k[j]), T[j]);
+      exchange(half_weight[k] * (ki + tk[j].k), tk[j].T);
     }
     for (; k < start[i + 1]; ++k)
     {
-      const double Tj = T[neighbour[k]];
+      const double Tj = tk[neighbour[k]].T;
       exchange(conductance(k, Ti, Tj), Tj);
     }
     if constexpr (Rate)
@@ -337,8 +337,7 @@ void HeatOperator::update_node_conductivity(
   const double* T, std::size_t begin, std::size_t end) const
 {
   for (std::size_t i = begin; i != end; ++i)
-    if (node_rock_[i] != kMixedRock)
-      node_k_[i] = fits_[node_rock_[i]](T[i]);
+    node_tk_[i] = { T[i], node_rock_[i] != kMixedRock ? fits_[node_rock_[i]](T[i]) : 0.0 };
 }
 
 template <bool Bound, bool Rate>
@@ -357,7 +356,7 @@ double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>
     return tbb::parallel_reduce(
       tbb::blocked_range<std::size_t>(0, n, kGrain), 0.0,
       [&](const tbb::blocked_range<std::size_t>& r, double w) {
-        return std::max(w, sweep<Bound, Rate>(T.data(), dEdt.data(), r.begin(), r.end()));
+        return std::max(w, sweep<Bound, Rate>(dEdt.data(), r.begin(), r.end()));
       },
       [](double a, double b) { return std::max(a, b); });
   });

@@ -121,11 +121,12 @@ private:
     std::vector<NodeArea> nodes; ///< unique nodes, ascending
   };
 
-  // Conduction kernel over nodes [begin, end): with Rate writes dEdt (sources included);
+  // Conduction kernel over nodes [begin, end) at the temperatures in node_tk_: with Rate
+  // writes dEdt (sources included);
   // with Bound returns the largest Gershgorin rate λ_i = Σ_b |A_ib| / C_i over the interior
   // nodes and leaves Σ_b |A_ib| of flux-boundary nodes in flux_stiffness_ for the group pass.
   template <bool Bound, bool Rate>
-  double sweep(const double* T, double* dEdt, std::size_t begin, std::size_t end) const;
+  double sweep(double* dEdt, std::size_t begin, std::size_t end) const;
   template <bool Bound, bool Rate>
   double sweep_all(const std::vector<double>& T, std::vector<double>& dEdt,
     tbb::task_arena& arena) const;
@@ -153,7 +154,7 @@ private:
   double source_total_ = 0.0;        ///< Σ radiogenic heat of the free nodes [W]
   /// Node i's edges at [edge_start_[i], edge_start_[i+1]), sorted by (neighbour, rock): the
   /// fixed summation order behind thread-count independence. Edges between two single-rock
-  /// nodes come first, up to edge_mixed_start_[i]: their ends' k are node_k_ entries.
+  /// nodes come first, up to edge_mixed_start_[i]: their ends' k are node_tk_ entries.
   std::vector<std::uint32_t> edge_start_;
   std::vector<std::uint32_t> edge_mixed_start_;
   std::vector<std::uint32_t> edge_node_;
@@ -162,7 +163,13 @@ private:
   std::vector<ConductivityFit> fits_;    ///< per rock
   static constexpr std::uint8_t kMixedRock = 255;
   std::vector<std::uint8_t> node_rock_;  ///< the rock of single-rock nodes, else kMixedRock
-  mutable std::vector<double> node_k_;   ///< k_rock(T_i) of single-rock nodes, per rate call
+  struct NodeTK
+  {
+    double T, k;
+  };
+  /// T_i and k_rock(T_i) of single-rock nodes side by side (one cache line per neighbour in
+  /// the sweep's gather), filled at the start of each rate call.
+  mutable std::vector<NodeTK> node_tk_;
   std::vector<std::uint32_t> flux_nodes_;      ///< nodes on flux-boundary groups, ascending
   mutable std::vector<double> flux_stiffness_; ///< their Σ_b |A_ib| [W/K], same order
   std::size_t flux_index(std::size_t node) const;
