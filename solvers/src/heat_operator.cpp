@@ -290,6 +290,8 @@ double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) con
   const double* half_weight = edge_weight_.data();
   const NodeTK* tk = node_tk_.data();
   double worst = 0.0;
+  // Flux-boundary nodes of this range, in the same ascending order: one search per range.
+  std::size_t next_flux = Bound ? flux_index(begin) : 0;
   for (std::size_t i = begin; i != end; ++i)
   {
     const double Ti = tk[i].T;
@@ -326,8 +328,8 @@ double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) con
       // |A_ii| + Σ_j |A_ij|
       const double stiffness = signed_weights ? std::abs(g_sum) + g_abs : 2.0 * g_sum;
       worst = std::max(worst, stiffness * inverse_capacity_[i]);
-      if (node_kind_[i] & kFluxFace) // rare: a search is cheaper than a per-node array
-        flux_stiffness_[flux_index(i)] = stiffness;
+      if (node_kind_[i] & kFluxFace)
+        flux_stiffness_[next_flux++] = stiffness;
     }
   }
   return worst;
@@ -390,10 +392,16 @@ double HeatOperator::conduct(const std::vector<double>& T, std::vector<double>& 
 double HeatOperator::stable_step_from(double worst, const std::vector<double>& T) const
 {
   for (const Group& g : groups_)
+  {
+    std::size_t k = 0; // both lists ascend: walk them together (held nodes are skipped)
     for (const NodeArea& na : g.nodes)
+    {
+      while (k < flux_nodes_.size() && flux_nodes_[k] < na.node)
+        ++k;
       if (!(node_kind_[na.node] & kHeld))
-        flux_stiffness_[flux_index(na.node)] +=
-          na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
+        flux_stiffness_[k] += na.area * face_stiffness(g.bc, na.emissivity, T[na.node]);
+    }
+  }
   for (std::size_t k = 0; k < flux_nodes_.size(); ++k) // after all groups: complete
     worst = std::max(worst, flux_stiffness_[k] * inverse_capacity_[flux_nodes_[k]]);
   return worst > 0.0 ? 2.0 / worst : std::numeric_limits<double>::infinity();
