@@ -136,3 +136,44 @@ TEST(Operator, LedgerBalancesWithRadiationConvectionAndFixedBase)
     EXPECT_LT(std::abs(result.ledger.relative_imbalance()), 1e-12) << integrator_name(kind);
   }
 }
+
+// Two copies of one rock are one material: assigning them to alternate cells must not change
+// the rate. Uniform cells take the single-rock path (k per node); alternating cells make
+// every node mixed-rock, where each edge evaluates k per rock itself. Both are
+// G = ½W (k(T_i) + k(T_j)); only the grouping of the weights' sums differs (round-off).
+TEST(Operator, RateDoesNotDependOnSplittingARockIntoIdenticalCopies)
+{
+  for (bool tets : { false, true })
+  {
+    const Mesh mesh = tets ? make_box_tet({ 0, 0, 0 }, { 4, 3, 5 }, { 4, 3, 5 })
+                           : make_box_hex({ 0, 0, 0 }, { 4, 3, 5 }, { 4, 3, 5 });
+    Rock shale = simple_rock("shale", 1.8, 2500, 900);
+    shale.conductivity.law = Conductivity::Law::VosteenSchellschmidt;
+    shale.conductivity.crystalline = false;
+    std::vector<int> alternate(mesh.n_cells());
+    for (std::size_t c = 0; c < alternate.size(); ++c)
+      alternate[c] = static_cast<int>(c % 2);
+    const ThermalModel one(mesh, { shale, shale }, std::vector<int>(mesh.n_cells(), 0));
+    const ThermalModel two(mesh, { shale, shale }, alternate);
+    std::vector<BoundaryCondition> bcs(1);
+    bcs[0].kind = BoundaryCondition::Kind::Radiation;
+    bcs[0].side = Side::Top;
+    const HeatOperator op_one(one, bcs), op_two(two, bcs);
+    std::vector<double> T(mesh.n_points());
+    for (std::size_t i = 0; i < T.size(); ++i) // a rough field: every edge carries heat
+      T[i] = 20.0 + 600.0 * std::abs(std::sin(1.7 * static_cast<double>(i)));
+    tbb::task_arena arena(2);
+    std::vector<double> r_one, r_two;
+    PowerTally p_one, p_two;
+    const double dt_one = op_one.rate_and_stable_step(T, r_one, p_one, arena);
+    const double dt_two = op_two.rate_and_stable_step(T, r_two, p_two, arena);
+    double scale = 0.0;
+    for (double r : r_one)
+      scale = std::max(scale, std::abs(r));
+    ASSERT_GT(scale, 0.0);
+    for (std::size_t i = 0; i < T.size(); ++i)
+      EXPECT_NEAR(r_two[i], r_one[i], 1e-12 * scale) << (tets ? "tets" : "hexes") << " node " << i;
+    EXPECT_NEAR(dt_two, dt_one, 1e-12 * dt_one);
+    EXPECT_NEAR(p_two.boundary, p_one.boundary, 1e-12 * scale);
+  }
+}
