@@ -395,8 +395,8 @@ Scenario parse_scenario(const YAML::Node& root, const std::string& file)
         if (r.name == body.name)
           bctx.item(i).child("name").fail(bodies[i]["name"], "the name '" + body.name +
               "' is already used by a layer or body (names must be unique)");
-      s.regions.regions.push_back(
-        { body.region, body.name, body.rock, RegionEntry::Intrusion{ body.temperature, body.time, body.replaces } });
+      s.regions.regions.push_back({ body.region, body.name, body.rock,
+        RegionEntry::Intrusion{ body.temperature, body.time, body.replaces }, std::nullopt });
       s.bodies.push_back(std::move(body));
     }
   }
