@@ -64,7 +64,9 @@ public:
    * safeguarded by the bracket its iterates build, which is bisected whenever a Newton step
    * leaves it (the kinks at solidus and liquidus make plain Newton cycle). Stops when a Newton
    * correction is below 1e-9 (1 + |T|) K, returning the corrected value (in the quadratic
-   * regime far more accurate than that), or when the bracket is below 1e-12 (1 + |T|) K.
+   * regime far more accurate than that), when the bracket is below 1e-12 (1 + |T|) K, or, on
+   * single-rock nodes, when newton_settled() bounds the corrected value's error below
+   * 1e-9 (1 + |T|) K.
    */
   double temperature(std::size_t node, double E, double T_guess) const;
   /**
