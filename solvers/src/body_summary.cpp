@@ -188,10 +188,11 @@ Contact host_side_contact(const ThermalModel& model, const NodeCells& cells,
       const auto nodes = mesh.nodes(slot.cell);
       for (const auto& edge : cell_edges(mesh.cell_types[slot.cell]))
       {
+        const int local = static_cast<int>(slot.local);
         int other = -1;
-        if (edge[0] == slot.local)
+        if (edge[0] == local)
           other = edge[1];
-        else if (edge[1] == slot.local)
+        else if (edge[1] == local)
           other = edge[0];
         if (other >= 0 && !in_any_body[nodes[other]])
           candidates.push_back(static_cast<std::size_t>(nodes[other]));
