@@ -15,7 +15,8 @@
  * the body, W/m²) per surface group: radiation −εσ(T⁴ − T_sky⁴) (T in K), convection
  * −h(T − T_fluid), both, a prescribed heat flow, or insulated. Fixed-temperature nodes are
  * held; the heat they pass is booked as boundary heat. Parallel loops gather per node in a
- * fixed order, so results do not depend on the thread count.
+ * fixed order, so results do not depend on the thread count. rate() and stable_time_step()
+ * fill per-operator scratch arrays (node conductivities): one call at a time per operator.
  */
 #pragma once
 
