@@ -177,7 +177,7 @@ int run_scenario(const RunRequest& request)
     years.push_back(t / kSecondsPerYear);
     sim->AddOutputTime(years.back());
   }
-  sim->SetIntegrator(scenario.integrator == inputs::IntegratorKind::ForwardEuler
+  sim->SetIntegrator(scenario.integrator == IntegratorKind::ForwardEuler
       ? vtkEmberCoolingSimulation::FORWARD_EULER
       : vtkEmberCoolingSimulation::RKL2);
   sim->SetThreads(scenario.threads);
@@ -281,7 +281,7 @@ int run_scenario(const RunRequest& request)
     { "scenario_md5", md5_of_file(request.scenario) },
     { "mesh", { { "cells", model.mesh.n_cells() }, { "nodes", model.mesh.n_points() },
                 { "resolution_factor", scenario.mesh.resolution } } },
-    { "integrator", scenario.integrator == inputs::IntegratorKind::ForwardEuler ? "forward-euler" : "rkl2" },
+    { "integrator", integrator_name(scenario.integrator) },
     { "threads", scenario.threads },
     { "time_steps", sim->GetStepsTaken() },
     { "operator_applications", sim->GetOperatorApplications() },

@@ -306,7 +306,7 @@ void parse_run(const YAML::Node& node, const YamlContext& ctx, Scenario& s)
 
   const std::string integrator = node["integrator"] ? as_string(node["integrator"], ctx.child("integrator")) : "rkl2";
   if (integrator == "rkl2")
-    s.integrator = IntegratorKind::Rkl2;
+    s.integrator = IntegratorKind::RKL2;
   else if (integrator == "forward-euler")
     s.integrator = IntegratorKind::ForwardEuler;
   else

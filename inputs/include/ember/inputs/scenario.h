@@ -13,6 +13,7 @@
 #include "ember/inputs/body_shapes.h"
 #include "ember/inputs/region_map.h"
 #include "ember/heat_operator.h"
+#include "ember/integrators.h"
 #include "ember/simulation.h"
 
 #include <array>
@@ -67,12 +68,6 @@ struct Body
   std::string location;     ///< "FILE:LINE:COL: bodies[i]", where the file defines it (for messages)
 };
 
-enum class IntegratorKind
-{
-  Rkl2,        ///< Runge–Kutta–Legendre super-time-stepping (default)
-  ForwardEuler
-};
-
 struct Scenario
 {
   std::string file;             ///< where it was read from ("" for text)
@@ -88,7 +83,7 @@ struct Scenario
   std::vector<BoundaryCondition> boundaries; ///< SI; one per surface (top, bottom, sides)
   double end_time = 0.0;                     ///< [s]
   std::vector<double> output_times;          ///< [s], strictly increasing, last = end_time
-  IntegratorKind integrator = IntegratorKind::Rkl2;
+  IntegratorKind integrator = IntegratorKind::RKL2; ///< ember::IntegratorKind
   int threads = 0;                           ///< 0 = all available
   std::vector<std::string> arrays;           ///< output arrays wanted; empty = the runner's default
 
