@@ -218,16 +218,16 @@ void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
   // Update and T(E) over one stable step's change of E (with E and T already consistent the
   // Newton iteration would stop at once and flatter the figure); E and T are reset each time.
   const std::vector<double> T_old = p.T, E_old = p.E;
-  std::vector<double> capacity_old(T_old.size()), capacity; // 1/(dE/dT), as the last solve leaves it
+  std::vector<double> inverse_capacity_old(T_old.size()), inverse_capacity; // as the last solve leaves it
   for (std::size_t i = 0; i < T_old.size(); ++i)
-    capacity_old[i] = 1.0 / p.model->capacity(i, T_old[i]);
+    inverse_capacity_old[i] = 1.0 / p.model->capacity(i, T_old[i]);
   figure("update_and_temperature_throughput",
          n / best_time(repeats,
                        [&]
                        {
                          std::copy(T_old.begin(), T_old.end(), p.T.begin());
                          std::copy(E_old.begin(), E_old.end(), p.E.begin());
-                         capacity = capacity_old;
+                         inverse_capacity = inverse_capacity_old;
                          arena.execute([&] {
                            tbb::parallel_for(tbb::blocked_range<std::size_t>(0, p.E.size(), 2048),
                              [&](const tbb::blocked_range<std::size_t>& r) {
@@ -235,7 +235,7 @@ void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
                                {
                                  p.E[i] += 0.9 * dt * rate[i];
                                  p.T[i] = p.model->temperature_after_change(
-                                   i, p.E[i], E_old[i], T_old[i], capacity[i]);
+                                   i, p.E[i], E_old[i], T_old[i], inverse_capacity[i]);
                                }
                              });
                          });
@@ -319,20 +319,19 @@ double csr_throughput(const Csr& a, int threads, int repeats)
 
 // Bytes one forward-Euler step streams per node, counted from the arrays each pass reads or
 // writes once (compulsory traffic; a written array counts 16 B per double: write-allocate plus
-// write-back; the gathers of T along the edges are assumed to hit cache). Per pass:
-//   rate + stable step: edge start 4, per edge neighbour 4 + weight 8 + rock 1; T 8, source 8,
-//     inverse capacity 8, node kind 1; rate out 16;
-//   update + T(E): rate 8, E in/out 16, T in/out 16, last capacity in/out 16, share offset 4,
-//     24 per node share.
+// write-back; the gathers along the edges are assumed to hit cache). Per pass:
+//   conductivity: T 8, node rock 1, (T, k) pair out 32;
+//   rate + stable step: edge start 4, mixed-edge start 4, (T, k) 16, source 8, inverse
+//     capacity 8, node kind 1, rate out 16; per edge neighbour 4 + half-weight 8, and the
+//     rock byte on edges with a mixed-rock end;
+//   update + T(E): rate 8, E in/out 16, T in/out 16, last 1/capacity in/out 16, share offset
+//     4, 24 per node share.
 double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
 {
   const double n = model.n_nodes();
   double shares = 0;
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
-  // Conductivity pass: T, node rock, (T, k) pairs written. Sweep: edge start, mixed-edge
-  // start, (T, k), source, 1/C_min, kind, dE/dt written; per edge the neighbour and ½W, and
-  // the rock on the edges with a mixed-rock end.
   const double rate = n * (8 + 1 + 32) + n * (4 + 4 + 16 + 8 + 8 + 1 + 16) +
     op.edge_entries() * (4.0 + 8) + op.mixed_edge_entries() * 1.0;
   const double update = n * (8 + 16 + 16 + 16 + 4) + shares * 24;
@@ -579,7 +578,7 @@ void section_sill()
   }
 }
 // No figures: the step alone, long enough for a sampling profiler to see inside it
-// (`perf record -F 999 emberlith-bench --section profile`).
+// (`perf record -F 1999 emberlith-bench --section profile`).
 void section_profile()
 {
   for (bool tets : { false, true })
