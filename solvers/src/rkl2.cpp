@@ -20,7 +20,6 @@ double b(int j)
 {
   return j <= 2 ? 1.0 / 3.0 : double(j * j + j - 2) / (2.0 * j * (j + 1));
 }
-
 } // namespace
 
 Rkl2::Rkl2(double tolerance, int max_stages)

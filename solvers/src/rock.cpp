@@ -232,14 +232,4 @@ double apparent_heat_capacity(const Rock& rock, double T)
   return enthalpy_fit(rock).capacity(T);
 }
 
-double min_heat_capacity(const Rock& rock, double T_lo, double T_hi)
-{
-  if (rock.heat_capacity.law == HeatCapacity::Law::Constant)
-    return rock.heat_capacity.c_ref;
-  // cN is increasing on [-100, 1000] °C (its derivative has no real root there), so the
-  // minimum sits at the low end.
-  (void)T_hi;
-  return heat_capacity(rock, T_lo);
-}
-
 } // namespace ember

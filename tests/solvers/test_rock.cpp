@@ -21,6 +21,15 @@ Rock basalt_with_latent()
   r.liquidus = 1180;
   return r;
 }
+
+Rock waples_host()
+{
+  Rock r;
+  r.name = "host";
+  r.heat_capacity.law = HeatCapacity::Law::WaplesWaples;
+  r.heat_capacity.c_ref = 900;
+  return r;
+}
 } // namespace
 
 // Vosteen & Schellschmidt (2003), worked values re-derived in shared/reference/verification.md
@@ -94,11 +103,7 @@ TEST(Rock, EnthalpyIsMonotoneAndCarriesLatentHeat)
 TEST(Rock, TemperatureInversionAtKinks)
 {
   Mesh mesh = make_box_hex({ 0, 0, 0 }, { 2, 1, 1 }, { 2, 1, 1 });
-  Rock host;
-  host.name = "host";
-  host.heat_capacity.law = HeatCapacity::Law::WaplesWaples;
-  host.heat_capacity.c_ref = 900;
-  ThermalModel model(mesh, { host, basalt_with_latent() }, { 0, 1 });
+  ThermalModel model(mesh, { waples_host(), basalt_with_latent() }, { 0, 1 });
   for (std::size_t node = 0; node < mesh.n_points(); ++node)
     for (double T : { 979.9999, 980.0, 980.0001, 1080.0, 1179.9999, 1180.0, 1180.0001, 20.0,
            1500.0 })
@@ -114,11 +119,7 @@ TEST(Rock, TemperatureInversionAtKinks)
 // published source needed: both are properties of the fit itself).
 TEST(Rock, EnthalpyFitNewtonBoundsMatchSampledExtremes)
 {
-  Rock waples;
-  waples.name = "waples";
-  waples.heat_capacity.law = HeatCapacity::Law::WaplesWaples;
-  waples.heat_capacity.c_ref = 900;
-  for (const Rock& rock : { waples, basalt_with_latent() })
+  for (const Rock& rock : { waples_host(), basalt_with_latent() })
   {
     const EnthalpyFit fit = enthalpy_fit(rock);
     double c_min = 1e300, slope_max = 0.0;
@@ -144,11 +145,7 @@ TEST(Rock, EnthalpyFitNewtonBoundsMatchSampledExtremes)
 TEST(Rock, TemperatureAfterChangeMeetsItsTolerance)
 {
   Mesh mesh = make_box_hex({ 0, 0, 0 }, { 2, 1, 1 }, { 2, 1, 1 });
-  Rock host;
-  host.name = "host";
-  host.heat_capacity.law = HeatCapacity::Law::WaplesWaples;
-  host.heat_capacity.c_ref = 900;
-  ThermalModel model(mesh, { host, basalt_with_latent() }, { 0, 1 });
+  ThermalModel model(mesh, { waples_host(), basalt_with_latent() }, { 0, 1 });
   int checked = 0;
   for (std::size_t node = 0; node < mesh.n_points(); ++node)
     for (double T_old : { 20.0, 400.0, 979.0, 980.0, 1000.0, 1179.5, 1180.0, 1300.0 })

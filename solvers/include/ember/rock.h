@@ -71,8 +71,8 @@ void validate(const Rock& rock);
 /**
  * The three conductivity laws in one form, k(T) = max(k_floor, p + q / (r + s·max(T, −100))),
  * with the law's constants worked out once (Vosteen & Schellschmidt's k0 needs a square root).
- * A non-positive denominator gives k_floor. The heat operator evaluates k on every mesh edge
- * of every step: one division, no branch on the law.
+ * A non-positive denominator gives k_floor. The heat operator evaluates k at every node (and
+ * on rock-contact edges) in every rate call: one division, no branch on the law.
  */
 struct ConductivityFit
 {
@@ -80,7 +80,7 @@ struct ConductivityFit
   double k_floor = 0.0;
   double operator()(double T) const
   {
-    if (q == 0.0) // constant k: no division (the heat operator calls this on every edge)
+    if (q == 0.0) // constant k: no division
       return p > k_floor ? p : k_floor;
     const double d = r + s * (T > -100.0 ? T : -100.0);
     const double k = p + q / d;
@@ -102,8 +102,9 @@ struct EnthalpyFit
   double t_lo = -1e300, t_hi = 1e300;
   double latent = 0.0, solidus = 0.0, inverse_interval = 0.0;
   double liquidus = 0.0;
-  /// Bounds for T(E)'s Newton error: dh/dT ≥ capacity_floor > 0 everywhere, and
-  /// |d²h/dT²| ≤ curvature_bound away from solidus and liquidus (where dh/dT jumps).
+  /// Bounds for T(E)'s Newton error and the stable step: dh/dT ≥ capacity_floor > 0 (the
+  /// lowest sensible c(T)) everywhere, and |d²h/dT²| ≤ curvature_bound away from solidus and
+  /// liquidus (where dh/dT jumps).
   double capacity_floor = 0.0, curvature_bound = 0.0;
 
   /// Distance from T to the nearest jump of dh/dT (solidus or liquidus) [K].
@@ -158,7 +159,5 @@ double sensible_enthalpy(const Rock& rock, double T); ///< ∫_0^T c dT' [J/kg]
 double specific_enthalpy(const Rock& rock, double T); ///< sensible + L f(T) [J/kg]
 /// dh/dT including the latent term where the melt fraction varies [J/(kg·K)].
 double apparent_heat_capacity(const Rock& rock, double T);
-/// Lowest c(T) over [T_lo, T_hi]; used for safe stable-step bounds [J/(kg·K)].
-double min_heat_capacity(const Rock& rock, double T_lo, double T_hi);
 
 } // namespace ember
