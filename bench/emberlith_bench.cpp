@@ -23,6 +23,7 @@
 #include <cstdio>
 #include <cstring>
 #include <fstream>
+#include <memory>
 #include <functional>
 #include <set>
 #include <string>
@@ -60,6 +61,20 @@ double best_time(int repeats, const std::function<void()>& f)
     f();
     best = std::min(best, std::chrono::duration<double>(Clock::now() - t0).count());
   }
+  return best;
+}
+
+// Best wall time of each function [s], timed in `rounds` rounds that each run every function
+// `repeats` times in turn. The load of a shared machine drifts over minutes (the CSR yardstick
+// alone moved by 45 % between two runs); alternating compares the step and the yardstick under
+// the same conditions, so their ratio is far steadier than either figure.
+std::vector<double> interleaved_best_times(
+  const std::vector<std::function<void()>>& fs, int rounds, int repeats)
+{
+  std::vector<double> best(fs.size(), 1e300);
+  for (int round = 0; round < rounds; ++round)
+    for (std::size_t f = 0; f < fs.size(); ++f)
+      best[f] = std::min(best[f], best_time(repeats, fs[f]));
   return best;
 }
 
@@ -182,19 +197,24 @@ Problem make_problem(double nodes, bool tets, bool linear = false)
   return p;
 }
 
-// Node-updates per second of one full forward-Euler step at the stable step (rate with the
-// stability bound in one pass, then update and T(E) in a second), as a run takes it: the step
-// is the stable one, so T(E) does the Newton work of a real step. Over the repeats the state
-// moves by a few stable steps, which does not change the cost.
+// One full forward-Euler step at the stable step (rate with the stability bound in one pass,
+// then update and T(E) in a second), as a run takes it: the step is the stable one, so T(E) does
+// the Newton work of a real step. Over the repeats the state moves by a few stable steps, which
+// does not change the cost. The returned function takes one step; it is warmed up once here.
+std::function<void()> step_function(Problem& p, tbb::task_arena& arena)
+{
+  auto fe = std::make_shared<ForwardEuler>();
+  constexpr double kAnyInterval = 1e15; // s; the stable step is far shorter
+  auto step = [&p, &arena, fe] { fe->advance(*p.model, *p.op, kAnyInterval, 0.9, p.E, p.T, arena); };
+  step(); // allocations
+  return step;
+}
+
+// Node-updates per second of that step.
 double step_throughput(Problem& p, int threads, int repeats)
 {
   tbb::task_arena arena(threads);
-  ForwardEuler fe;
-  constexpr double kAnyInterval = 1e15; // s; the stable step is far shorter
-  fe.advance(*p.model, *p.op, kAnyInterval, 0.9, p.E, p.T, arena); // warm-up, allocations
-  const double t =
-    best_time(repeats, [&] { fe.advance(*p.model, *p.op, kAnyInterval, 0.9, p.E, p.T, arena); });
-  return p.mesh.n_points() / t;
+  return p.mesh.n_points() / best_time(repeats, step_function(p, arena));
 }
 
 // Components of the step, to see where the time goes [s per call].
@@ -290,12 +310,13 @@ Csr assemble_csr(const ThermalModel& model)
   return a;
 }
 
-double csr_throughput(const Csr& a, int threads, int repeats)
+// y = A x with A the yardstick matrix; the returned function does one product (x = 1, warmed up).
+std::function<void()> spmv_function(const Csr& a, tbb::task_arena& arena)
 {
   const std::size_t n = a.row_start.size() - 1;
-  std::vector<double> x(n, 1.0), y(n, 0.0);
-  tbb::task_arena arena(threads);
-  auto spmv = [&]
+  auto x = std::make_shared<std::vector<double>>(n, 1.0);
+  auto y = std::make_shared<std::vector<double>>(n, 0.0);
+  auto spmv = [&a, &arena, x, y, n]
   {
     arena.execute(
       [&]
@@ -303,18 +324,19 @@ double csr_throughput(const Csr& a, int threads, int repeats)
         tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, 2048),
                           [&](const tbb::blocked_range<std::size_t>& r)
                           {
+                            const double* xs = x->data();
                             for (std::size_t i = r.begin(); i != r.end(); ++i)
                             {
                               double s = 0.0;
                               for (std::int64_t k = a.row_start[i]; k < a.row_start[i + 1]; ++k)
-                                s += a.value[k] * x[a.column[k]];
-                              y[i] = s;
+                                s += a.value[k] * xs[a.column[k]];
+                              (*y)[i] = s;
                             }
                           });
       });
   };
   spmv();
-  return n / best_time(repeats, spmv);
+  return spmv;
 }
 
 // Bytes one forward-Euler step streams per node, counted from the arrays each pass reads or
@@ -381,42 +403,56 @@ void section_step_and_csr(bool step, bool csr)
   if (triad_two_threads == 0.0)
     triad_two_threads = stream_triad(2);
   const double nodes = quick ? 1e5 : 1e6;
+  const int rounds = quick ? 1 : 4, repeats = quick ? 2 : 5;
   for (bool tets : { false, true })
   {
     const std::string mesh_name = tets ? "tet" : "hex";
     Problem p = make_problem(nodes, tets);
+    // The same model with constant properties. (Problems are not moved: the model points at
+    // the mesh.)
+    Problem q = step ? make_problem(nodes, tets, true) : Problem{};
+    Csr a;
+    if (csr)
+      a = assemble_csr(*p.model);
     const std::string size = " nodes=" + std::to_string(p.mesh.n_points());
     std::printf(
       "# %s mesh: %zu nodes, %zu cells\n", mesh_name.c_str(), p.mesh.n_points(), p.mesh.n_cells());
-    double step_2t = 0, step_1t = 0, csr_2t = 0;
-    if (step)
-      for (int threads : kThreadCounts)
-      {
-        const double v = step_throughput(p, threads, quick ? 2 : 15);
-        (threads == 1 ? step_1t : step_2t) = v;
-        figure("step_throughput",
-               v,
-               "node-updates/s",
-               "mesh=" + mesh_name + " threads=" + std::to_string(threads) + size +
-                 " integrator=forward-euler physics=k(T),c(T),latent");
-        step_breakdown(p, threads, mesh_name);
-      }
-    if (step)
-      figure("step_scaling_2t_over_1t", step_2t / step_1t, "ratio", "mesh=" + mesh_name);
-    double linear_2t = 0.0;
-    if (step)
+    // Step (full physics), step (constant properties) and the yardstick's SpMV, timed in
+    // alternating rounds at each thread count (interleaved_best_times).
+    double full[3] = {}, linear[3] = {}, spmv[3] = {}; // node-updates/s, indexed by threads
+    for (int threads : kThreadCounts)
     {
-      Problem q = make_problem(nodes, tets, true);
-      for (int threads : kThreadCounts)
+      tbb::task_arena arena(threads);
+      std::vector<std::function<void()>> fs;
+      if (step)
       {
-        const double v = step_throughput(q, threads, quick ? 2 : 15);
-        if (threads == 2)
-          linear_2t = v;
-        figure("step_throughput", v, "node-updates/s",
-          "mesh=" + mesh_name + " threads=" + std::to_string(threads) + size +
-            " integrator=forward-euler physics=constant-k-c,no-latent");
+        fs.push_back(step_function(p, arena));
+        fs.push_back(step_function(q, arena));
       }
+      if (csr)
+        fs.push_back(spmv_function(a, arena));
+      const std::vector<double> t = interleaved_best_times(fs, rounds, repeats);
+      const double n = p.mesh.n_points();
+      const std::string tag = "mesh=" + mesh_name + " threads=" + std::to_string(threads);
+      if (step)
+      {
+        full[threads] = n / t[0];
+        linear[threads] = n / t[1];
+        figure("step_throughput", full[threads], "node-updates/s",
+          tag + size + " integrator=forward-euler physics=k(T),c(T),latent");
+        figure("step_throughput", linear[threads], "node-updates/s",
+          tag + size + " integrator=forward-euler physics=constant-k-c,no-latent");
+      }
+      if (csr)
+      {
+        spmv[threads] = n / t.back();
+        figure("csr_spmv_throughput", spmv[threads], "node-updates/s", tag);
+      }
+      if (step)
+        step_breakdown(p, threads, mesh_name);
     }
+    if (step)
+      figure("step_scaling_2t_over_1t", full[2] / full[1], "ratio", "mesh=" + mesh_name);
     const double bytes = step_bytes_per_node(*p.model, *p.op);
     figure("edges_per_node", double(p.op->edge_entries()) / p.mesh.n_points(), "1",
       "mesh=" + mesh_name);
@@ -427,7 +463,6 @@ void section_step_and_csr(bool step, bool csr)
            "mesh=" + mesh_name + " threads=2 bandwidth=triad");
     if (csr)
     {
-      const Csr a = assemble_csr(*p.model);
       const double nnz_per_row = double(a.value.size()) / p.mesh.n_points();
       const double csr_bytes = 12.0 * nnz_per_row + 16.0; // issue #7's yardstick definition
       figure("csr_nnz_per_row", nnz_per_row, "1", "mesh=" + mesh_name);
@@ -441,35 +476,25 @@ void section_step_and_csr(bool step, bool csr)
              triad_two_threads / nominal_bytes,
              "node-updates/s",
              "mesh=" + mesh_name + " threads=2 bytes_per_row=" + std::to_string(nominal_bytes));
-      for (int threads : kThreadCounts)
-      {
-        const double v = csr_throughput(a, threads, quick ? 3 : 10);
-        if (threads == 2)
-          csr_2t = v;
-        figure("csr_spmv_throughput",
-               v,
-               "node-updates/s",
-               "mesh=" + mesh_name + " threads=" + std::to_string(threads));
-      }
       if (step)
       {
         figure("step_over_csr_roofline",
-               step_2t / (triad_two_threads / csr_bytes),
+               full[2] / (triad_two_threads / csr_bytes),
                "ratio",
                "mesh=" + mesh_name + " threads=2 target=0.8");
         figure("step_over_csr_measured",
-               step_2t / csr_2t,
+               full[2] / spmv[2],
                "ratio",
-               "mesh=" + mesh_name + " threads=2 target=0.8");
+               "mesh=" + mesh_name + " threads=2 target=0.8 timing=interleaved");
         figure("step_over_csr_measured",
-               linear_2t / csr_2t,
+               linear[2] / spmv[2],
                "ratio",
-               "mesh=" + mesh_name + " threads=2 physics=constant-k-c,no-latent");
+               "mesh=" + mesh_name + " threads=2 physics=constant-k-c,no-latent timing=interleaved");
       }
     }
     if (step)
       figure("step_over_own_roofline",
-             step_2t / (triad_two_threads / bytes),
+             full[2] / (triad_two_threads / bytes),
              "ratio",
              "mesh=" + mesh_name + " threads=2");
   }
