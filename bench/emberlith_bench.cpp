@@ -8,7 +8,8 @@
 // Usage: emberlith-bench [--quick] [--section NAME]...
 //   --quick      small sizes (seconds; used by the ctest smoke test)
 //   --section    stream | step | csr | growth | memory | sill (repeatable; default all)
-//                | profile (only when named: 300 full-physics steps per mesh, for perf record)
+//                | profile (only when named: 300 full-physics steps per mesh, for perf record;
+//                  20 with --quick, for callgrind)
 #include "ember/integrators.h"
 #include "ember/rkl2.h"
 #include "ember/simulation.h"
@@ -603,18 +604,21 @@ void section_sill()
   }
 }
 // No figures: the step alone, long enough for a sampling profiler to see inside it
-// (`perf record -F 1999 emberlith-bench --section profile`).
+// (`perf record -F 1999 emberlith-bench --section profile`), or, with --quick (20 steps on
+// 10⁵-node meshes), short enough to count instructions under callgrind (bench/README.md).
 void section_profile()
 {
+  const int steps = quick ? 20 : 300;
   for (bool tets : { false, true })
   {
     Problem p = make_problem(quick ? 1e5 : 1e6, tets);
     tbb::task_arena arena(2);
     ForwardEuler fe;
     const auto start = Clock::now();
-    for (int s = 0; s < 300; ++s)
+    for (int s = 0; s < steps; ++s)
       fe.advance(*p.model, *p.op, 1e15, 0.9, p.E, p.T, arena);
-    std::printf("# profile %s: 300 steps in %.2f s\n", tets ? "tet" : "hex",
+    std::printf("# profile %s: %zu nodes, %d steps in %.2f s\n", tets ? "tet" : "hex",
+                p.mesh.n_points(), steps,
                 std::chrono::duration<double>(Clock::now() - start).count());
   }
 }

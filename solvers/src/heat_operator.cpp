@@ -299,31 +299,37 @@ double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) con
   {
     const double Ti = tk[i].T;
     double s = 0.0, g_sum = 0.0, g_abs = 0.0;
-    // With no negative weight at the node (bricks, non-obtuse tetrahedra), Σ|G| = ΣG.
-    const bool signed_weights = Bound && (node_kind_[i] & kSignedWeights);
-    const auto exchange = [&](double G, double Tj) {
-      s += G * (Tj - Ti);
-      if constexpr (Bound)
-      {
-        g_sum += G;
-        if (signed_weights)
+    // Σ_j G_ij (T_j − T_i), and for the bound Σ G (and Σ|G| when Signed). Both ends single-rock:
+    // G = ½W (k_i + k_j) from the per-node conductivities, the same numbers conductance() would
+    // compute; the rest (rock contacts) evaluate k per rock.
+    const auto exchange_all = [&]<bool Signed>() {
+      const auto exchange = [&](double G, double Tj) {
+        s += G * (Tj - Ti);
+        if constexpr (Bound)
+          g_sum += G;
+        if constexpr (Signed)
           g_abs += std::abs(G);
+      };
+      const double ki = tk[i].k;
+      std::uint32_t k = start[i];
+      for (const std::uint32_t single_end = mixed_start[i]; k < single_end; ++k)
+      {
+        const std::uint32_t j = neighbour[k];
+        exchange(half_weight[k] * (ki + tk[j].k), tk[j].T);
+      }
+      for (const std::uint32_t end_i = start[i + 1]; k < end_i; ++k)
+      {
+        const double Tj = tk[neighbour[k]].T;
+        exchange(conductance(k, Ti, Tj), Tj);
       }
     };
-    // Both ends single-rock: G = ½W (k_i + k_j) from the per-node conductivities, which are
-    // the same numbers conductance() would compute.
-    const double ki = tk[i].k;
-    std::uint32_t k = start[i];
-    for (; k < mixed_start[i]; ++k)
-    {
-      const std::uint32_t j = neighbour[k];
-      exchange(half_weight[k] * (ki + tk[j].k), tk[j].T);
-    }
-    for (; k < start[i + 1]; ++k)
-    {
-      const double Tj = tk[neighbour[k]].T;
-      exchange(conductance(k, Ti, Tj), Tj);
-    }
+    // With no negative weight at the node (bricks, non-obtuse tetrahedra), Σ|G| = ΣG: the
+    // loop without |G| serves nearly every node.
+    const bool signed_weights = Bound && (node_kind_[i] & kSignedWeights);
+    if (signed_weights)
+      exchange_all.template operator()<Bound>();
+    else
+      exchange_all.template operator()<false>();
     if constexpr (Rate)
       dEdt[i] = s + model.node_source(i);
     if constexpr (Bound)
