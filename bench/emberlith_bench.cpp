@@ -24,8 +24,8 @@
 #include <cstdio>
 #include <cstring>
 #include <fstream>
-#include <memory>
 #include <functional>
+#include <memory>
 #include <set>
 #include <string>
 #include <vector>

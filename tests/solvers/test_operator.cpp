@@ -177,3 +177,63 @@ TEST(Operator, RateDoesNotDependOnSplittingARockIntoIdenticalCopies)
     EXPECT_NEAR(p_two.boundary, p_one.boundary, 1e-12 * scale);
   }
 }
+
+// The stable step is 2/λ with λ Gershgorin's bound on the operator over the node capacities:
+// max_i (|A_ii| + Σ_{j≠i} |A_ij|) / C_i (Gershgorin 1931; any textbook on matrix eigenvalues).
+// Here A is read off the operator itself, one column per unit temperature field (constant k,
+// so the rate is linear in T), and the bound is summed in the test. The distorted
+// tetrahedra have obtuse angles, hence negative edge weights, where Σ|A_ij| ≠ |ΣA_ij|: the
+// branch of the sweep that sums |G| is checked as well as the one that does not.
+TEST(Operator, StableStepIsGershgorinBoundOfTheAssembledOperator)
+{
+  for (bool distorted : { false, true })
+  {
+    Mesh mesh = make_box_tet({ 0, 0, 0 }, { 4, 3, 3 }, { 4, 3, 3 });
+    if (distorted)
+      for (std::size_t i = 0; i < mesh.n_points(); ++i)
+      {
+        auto& p = mesh.points[i];
+        const bool interior = p[0] > 0 && p[0] < 4 && p[1] > 0 && p[1] < 3 && p[2] > 0 && p[2] < 3;
+        if (interior) // deterministic shifts of up to 0.3 cell
+          for (int d = 0; d < 3; ++d)
+            p[d] += 0.3 * std::sin(2.3 * static_cast<double>(i) + 1.1 * d);
+      }
+    const double c = 900.0;
+    const ThermalModel model(mesh, { simple_rock("granite", 2.7, 2650, c) },
+      std::vector<int>(mesh.n_cells(), 0));
+    const HeatOperator op(model, {}); // insulated: no boundary stiffness, no held nodes
+    tbb::task_arena arena(1);
+    const std::size_t n = mesh.n_points();
+    std::vector<double> unit(n, 0.0), column;
+    std::vector<double> row_abs_sum(n, 0.0);
+    PowerTally tally;
+    int negative_weights = 0;
+    for (std::size_t j = 0; j < n; ++j)
+    {
+      unit[j] = 1.0;
+      op.rate(unit, column, tally, arena);
+      unit[j] = 0.0;
+      for (std::size_t i = 0; i < n; ++i)
+      {
+        row_abs_sum[i] += std::abs(column[i]);
+        if (i != j && column[i] < -1e-12)
+          ++negative_weights; // A_ij = G_ij < 0
+      }
+    }
+    if (distorted)
+      ASSERT_GT(negative_weights, 0) << "the distortion should make some weights negative";
+    else
+      ASSERT_EQ(negative_weights, 0);
+    double lambda = 0.0;
+    for (std::size_t i = 0; i < n; ++i)
+    {
+      double mass = 0.0;
+      for (const NodeShare& s : model.shares(i))
+        mass += s.mass;
+      lambda = std::max(lambda, row_abs_sum[i] / (mass * c));
+    }
+    const std::vector<double> T(n, 300.0);
+    EXPECT_NEAR(op.stable_time_step(T, arena), 2.0 / lambda, 1e-12 * 2.0 / lambda)
+      << (distorted ? "distorted" : "regular") << " tetrahedra";
+  }
+}
