@@ -299,7 +299,12 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
       all_nodes.add(at(history.solidification_time, i));
     for (int region : here)
     {
-      solidification[region].add(at(history.solidification_time, i));
+      // A node on a body's contact carries the body's share of magma: its melting and
+      // solidification belong to the body, not to the host region around it.
+      const bool body = std::find(settings.bodies.begin(), settings.bodies.end(), region) !=
+        settings.bodies.end();
+      if (body || !in_any_body[i])
+        solidification[region].add(at(history.solidification_time, i));
       if (here.size() > 1)
         boundary_of[region].push_back(i);
     }

@@ -8,6 +8,7 @@
 
 #include <cstring>
 #include <fstream>
+#include <limits>
 #include <sstream>
 
 using namespace ember;
@@ -609,4 +610,43 @@ TEST(BodySummary, AureoleThicknessOnTetrahedra)
     EXPECT_EQ(b.model.contact_temperature, 800.0);
     EXPECT_EQ(b.model.contact_distance, 1.0);
   }
+}
+
+// Bookkeeping of the solidification column (a definition, no external source): the contact
+// nodes' control volumes hold the body's magma, so their solidification times count for the
+// body and the whole model, not for the host region around it; a host node away from any body
+// that melted (host partial melting) still counts for the host.
+TEST(BodySummary, ContactNodesSolidifyWithTheBodyNotTheHost)
+{
+  Mesh mesh = make_box_hex({ 0, 0, 0 }, { 6, 1, 6 }, { 6, 1, 6 });
+  mark_layer(mesh, 2, 4); // the two cell layers between z = 2 and 4 are region 1
+  const ThermalModel model(mesh, { simple_rock("host", 2.5, 2600, 900) },
+    std::vector<int>(mesh.n_cells(), 0));
+  const double kNaN = std::numeric_limits<double>::quiet_NaN();
+  std::vector<double> solidified(mesh.n_points(), kNaN); // host: never molten
+  std::size_t far_host = 0;
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+  {
+    const double z = mesh.points[i][2];
+    if (z > 2.5 && z < 3.5)
+      solidified[i] = 10.0; // body interior
+    else if (std::abs(z - 2.0) < 1e-9 || std::abs(z - 4.0) < 1e-9)
+      solidified[i] = 20.0; // contact nodes, shared by body and host cells
+    else if (std::abs(z - 6.0) < 1e-9 && mesh.points[i][0] == 0.0 && mesh.points[i][1] == 0.0)
+      far_host = i;
+  }
+  BodySummarySettings s;
+  s.bodies = { 1 };
+  const auto summarize = [&] {
+    return summarize_bodies(model, 0, std::vector<double>(mesh.n_points(), 20.0),
+      { {}, solidified, {} }, s);
+  };
+  BodySummary b = summarize();
+  EXPECT_EQ(b.regions.at(1).solidification_time, 20.0);
+  EXPECT_TRUE(std::isnan(b.regions.at(0).solidification_time));
+  EXPECT_EQ(b.model.solidification_time, 20.0);
+  solidified[far_host] = 5.0; // a host node away from the body melted and froze again
+  b = summarize();
+  EXPECT_EQ(b.regions.at(0).solidification_time, 5.0);
+  EXPECT_EQ(b.regions.at(1).solidification_time, 20.0);
 }
