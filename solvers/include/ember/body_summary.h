@@ -57,8 +57,9 @@ struct RegionSummary
   double heat_in_place = 0.0;       ///< Σ mass · (h(T) − h(T_ref)) [J]
   double recoverable_heat = 0.0;    ///< recovery factor · heat in place [J]
   /// Time the last of the region's nodes solidified [s]: NaN if none was ever molten, +∞ while
-  /// any still is. Nodes on the contact of a body count for the body only (their control
-  /// volumes hold the body's magma), so a host region reports its own melting, if any.
+  /// any still is. Nodes on the contact of a body count for the body and the whole model, not
+  /// for the host region around it (their control volumes hold the body's magma), so a host
+  /// region reports its own melting, if any.
   double solidification_time = 0.0;
   /// Bodies only: maximum contact temperature [°C], read on the host side: the highest peak
   /// temperature among the host-side contact nodes, i.e. nodes of no body (of none of
