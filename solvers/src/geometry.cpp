@@ -366,14 +366,45 @@ std::vector<std::int64_t> cells_with_bad_jacobian(const Mesh& mesh)
   return bad;
 }
 
-ElementMatrices compute_element_matrices(const Mesh& mesh)
+namespace
+{
+void require_positive_jacobians(const Mesh& mesh)
 {
   check_ids(mesh);
   const auto bad = cells_with_bad_jacobian(mesh);
   if (!bad.empty())
     throw MeshError(list_cells(bad) + (bad.size() == 1 ? " has" : " have") +
       " a non-positive Jacobian determinant (inverted, degenerate or not in VTK node order)");
+}
 
+// Adds cell c's ∫ N_a dV to V[a] and returns its volume.
+double add_nodal_volumes(const Mesh& mesh, std::size_t c, const CellCoords& cc, double* V)
+{
+  double volume = 0.0;
+  for (const auto& q : quadrature(mesh.cell_types[c]))
+  {
+    const ShapeValues s = shape(mesh.cell_types[c], q.xi);
+    const double dV = q.w * jacobian(cc, s).determinant();
+    for (int a = 0; a < cc.n; ++a)
+      V[a] += s.N[a] * dV;
+    volume += dV;
+  }
+  return volume;
+}
+} // namespace
+
+std::vector<double> compute_nodal_volumes(const Mesh& mesh)
+{
+  require_positive_jacobians(mesh);
+  std::vector<double> nodal_volume(mesh.cell_nodes.size(), 0.0);
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+    add_nodal_volumes(mesh, c, coords(mesh, c), nodal_volume.data() + mesh.cell_offsets[c]);
+  return nodal_volume;
+}
+
+ElementMatrices compute_element_matrices(const Mesh& mesh)
+{
+  require_positive_jacobians(mesh);
   ElementMatrices em;
   em.stiffness_offsets.reserve(mesh.n_cells() + 1);
   em.stiffness_offsets.push_back(0);
@@ -387,16 +418,7 @@ ElementMatrices compute_element_matrices(const Mesh& mesh)
     const auto start = static_cast<std::size_t>(em.stiffness_offsets.back());
     em.stiffness.resize(start + static_cast<std::size_t>(n * n), 0.0);
     double* K = em.stiffness.data() + start;
-    double* V = em.nodal_volume.data() + mesh.cell_offsets[c];
-
-    for (const auto& q : quadrature(type))
-    {
-      const ShapeValues s = shape(type, q.xi);
-      const double dV = q.w * jacobian(cc, s).determinant();
-      for (int a = 0; a < n; ++a)
-        V[a] += s.N[a] * dV;
-      em.cell_volume[c] += dV;
-    }
+    em.cell_volume[c] = add_nodal_volumes(mesh, c, cc, em.nodal_volume.data() + mesh.cell_offsets[c]);
     for (const auto& q : stiffness_quadrature(type))
     {
       const ShapeValues s = shape(type, q.xi);

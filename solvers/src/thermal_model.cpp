@@ -28,7 +28,7 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
       throw PropertyError("cell " + std::to_string(c) + " (region " +
         std::to_string(mesh.cell_region[c]) + ") has no rock type");
   validate_mesh(mesh);
-  cell_node_volume_ = compute_element_matrices(mesh).nodal_volume;
+  cell_node_volume_ = compute_nodal_volumes(mesh);
   build_shares();
 }
 

@@ -331,6 +331,27 @@ TEST(Geometry, CubeSplitIntoWedgesAndPyramids)
   EXPECT_NEAR(total(p.nodal_volume), 1.0, 1e-14);
 }
 
+// The thermal model takes its volumes from compute_nodal_volumes, the operator its weights from
+// compute_element_matrices: both must see the same volumes, bit for bit, on every cell type.
+TEST(Geometry, NodalVolumesAloneEqualThoseOfTheElementMatrices)
+{
+  Mesh box = make_box_hex({ 0, 0, 0 }, { 3, 2, 2 }, { 3, 2, 2 });
+  box.points[box.n_points() / 2][0] += 0.21; // a distorted interior node
+  for (const Mesh& m : { box, make_box_tet({ 0, 0, 0 }, { 2, 2, 1 }, { 2, 2, 1 }),
+         cube_of_wedges(0), cube_of_pyramids(0) })
+  {
+    const std::vector<double> alone = compute_nodal_volumes(m);
+    const ElementMatrices em = compute_element_matrices(m);
+    ASSERT_EQ(alone.size(), em.nodal_volume.size());
+    for (std::size_t k = 0; k < alone.size(); ++k)
+      EXPECT_EQ(alone[k], em.nodal_volume[k]) << "entry " << k;
+  }
+  Mesh bad = make_box_hex({ 0, 0, 0 }, { 4, 1, 1 }, { 4, 1, 1 });
+  std::swap(bad.cell_nodes[bad.cell_offsets[3] + 1], bad.cell_nodes[bad.cell_offsets[3] + 2]);
+  const std::string msg = mesh_error([&] { compute_nodal_volumes(bad); });
+  EXPECT_NE(msg.find("cell 3 has a non-positive Jacobian"), std::string::npos) << msg;
+}
+
 // ---------------------------------------------------------------------------------------------
 // Stiffness
 
