@@ -267,11 +267,14 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
     }
   }
 
+  const auto is_body = [&settings](int region) {
+    return std::find(settings.bodies.begin(), settings.bodies.end(), region) !=
+      settings.bodies.end();
+  };
   // Node membership per region (a node belongs to every region among its cells).
   std::vector<char> in_any_body(model.n_nodes(), 0);
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-    if (std::find(settings.bodies.begin(), settings.bodies.end(), mesh.cell_region[c]) !=
-      settings.bodies.end())
+    if (is_body(mesh.cell_region[c]))
       for (std::int64_t j : mesh.nodes(c))
         in_any_body[j] = 1;
 
@@ -301,9 +304,7 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
     {
       // A node on a body's contact carries the body's share of magma: its melting and
       // solidification belong to the body, not to the host region around it.
-      const bool body = std::find(settings.bodies.begin(), settings.bodies.end(), region) !=
-        settings.bodies.end();
-      if (body || !in_any_body[i])
+      if (is_body(region) || !in_any_body[i])
         solidification[region].add(at(history.solidification_time, i));
       if (here.size() > 1)
         boundary_of[region].push_back(i);
@@ -324,8 +325,7 @@ BodySummary summarize_bodies(const ThermalModel& model, double time, const std::
     const std::vector<std::size_t>& boundary = boundary_of[region];
     row.contact_temperature = row.contact_distance = row.aureole_thickness_temperature =
       row.aureole_thickness_reflectance = kNaN;
-    if (std::find(settings.bodies.begin(), settings.bodies.end(), region) ==
-        settings.bodies.end() ||
+    if (!is_body(region) ||
       boundary.empty()) // not a body, or a body filling the whole mesh
       continue;
     std::vector<Point> boundary_points;

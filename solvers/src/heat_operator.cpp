@@ -243,14 +243,12 @@ void HeatOperator::refresh()
   const ThermalModel& model = *model_;
   inverse_capacity_.assign(model.n_nodes(), 0.0);
   source_total_ = 0.0; // sequential: one fixed summation order
-  std::vector<double> capacity_floor; // lowest sensible c(T) per rock [J/(kg·K)]
-  for (const Rock& rock : model.rocks())
-    capacity_floor.push_back(enthalpy_fit(rock).capacity_floor);
+  const std::vector<EnthalpyFit>& fits = model.enthalpy_fits();
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
   {
-    double min_capacity = 0.0;
+    double min_capacity = 0.0; // lowest sensible heat capacity of the node [J/K]
     for (const NodeShare& s : model.shares(i))
-      min_capacity += s.mass * capacity_floor[s.rock];
+      min_capacity += s.mass * fits[s.rock].capacity_floor;
     if (!(node_kind_[i] & kHeld) && min_capacity > 0.0)
       inverse_capacity_[i] = 1.0 / min_capacity;
     if (!(node_kind_[i] & kHeld))

@@ -42,6 +42,8 @@ public:
   const std::vector<double>& cell_node_volumes() const { return cell_node_volume_; }
   const std::vector<Rock>& rocks() const { return rocks_; }
   const std::vector<int>& cell_rock() const { return cell_rock_; }
+  /// Each rock's enthalpy fit (h, dh/dT and their bounds), indexed like rocks().
+  const std::vector<EnthalpyFit>& enthalpy_fits() const { return enthalpy_; }
   std::size_t n_nodes() const { return mesh_->n_points(); }
 
   /// Shares of node i (the rock types of its cells, ascending by first appearance).
