@@ -12,6 +12,7 @@
 //                  20 with --quick, for callgrind)
 #include "ember/integrators.h"
 #include "ember/rkl2.h"
+#include "ember/simd.h"
 #include "ember/simulation.h"
 
 #include <oneapi/tbb/blocked_range.h>
@@ -202,11 +203,15 @@ Problem make_problem(double nodes, bool tets, bool linear = false)
 // then update and T(E) in a second), as a run takes it: the step is the stable one, so T(E) does
 // the Newton work of a real step. Over the repeats the state moves by a few stable steps, which
 // does not change the cost. The returned function takes one step; it is warmed up once here.
-std::function<void()> step_function(Problem& p, tbb::task_arena& arena)
+std::function<void()> step_function(Problem& p, tbb::task_arena& arena,
+  SimdLevel level = best_simd_level())
 {
   auto fe = std::make_shared<ForwardEuler>();
   constexpr double kAnyInterval = 1e15; // s; the stable step is far shorter
-  auto step = [&p, &arena, fe] { fe->advance(*p.model, *p.op, kAnyInterval, 0.9, p.E, p.T, arena); };
+  auto step = [&p, &arena, fe, level] {
+    set_simd_level(level);
+    fe->advance(*p.model, *p.op, kAnyInterval, 0.9, p.E, p.T, arena);
+  };
   step(); // allocations
   return step;
 }
@@ -252,12 +257,9 @@ void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
                          arena.execute([&] {
                            tbb::parallel_for(tbb::blocked_range<std::size_t>(0, p.E.size(), 2048),
                              [&](const tbb::blocked_range<std::size_t>& r) {
-                               for (std::size_t i = r.begin(); i != r.end(); ++i)
-                               {
-                                 p.E[i] += 0.9 * dt * rate[i];
-                                 p.T[i] = p.model->temperature_after_change(
-                                   i, p.E[i], E_old[i], T_old[i], inverse_capacity[i]);
-                               }
+                               update_heat_and_temperature(*p.model, r.begin(), r.end(),
+                                 p.E.data(), p.T.data(), inverse_capacity.data(),
+                                 [&](std::size_t i, double E) { return E + 0.9 * dt * rate[i]; });
                              });
                          });
                        }),
@@ -427,7 +429,9 @@ void section_step_and_csr(bool step, bool csr)
     // Step (full physics), step (constant properties) and the yardstick's SpMV at 1 and 2
     // threads, all timed in alternating rounds (interleaved_best_times): the ratios between
     // them, scaling included, then compare runs made under the same load.
-    double full[3] = {}, linear[3] = {}, spmv[3] = {}; // node-updates/s, indexed by threads
+    // node-updates/s, indexed by threads; full_scalar: the full step with the node loops at
+    // SimdLevel::Scalar, for the vector loops' speed-up (simd.h)
+    double full[3] = {}, linear[3] = {}, full_scalar[3] = {}, spmv[3] = {};
     tbb::task_arena one(1), two(2);
     tbb::task_arena* arena_of[3] = { nullptr, &one, &two };
     std::vector<std::function<void()>> fs;
@@ -437,11 +441,13 @@ void section_step_and_csr(bool step, bool csr)
       {
         fs.push_back(step_function(p, *arena_of[threads]));
         fs.push_back(step_function(q, *arena_of[threads]));
+        fs.push_back(step_function(p, *arena_of[threads], SimdLevel::Scalar));
       }
       if (csr)
         fs.push_back(spmv_function(a, *arena_of[threads]));
     }
     const std::vector<double> t = interleaved_best_times(fs, rounds, repeats);
+    set_simd_level(best_simd_level()); // for the breakdown below
     const std::size_t per_thread_count = fs.size() / 2;
     const double n = p.mesh.n_points();
     for (int threads : kThreadCounts)
@@ -452,10 +458,16 @@ void section_step_and_csr(bool step, bool csr)
       {
         full[threads] = n / ts[0];
         linear[threads] = n / ts[1];
+        full_scalar[threads] = n / ts[2];
+        const std::string simd = " simd=" + simd_level_name(best_simd_level());
         figure("step_throughput", full[threads], "node-updates/s",
-          tag + size + " integrator=forward-euler physics=k(T),c(T),latent");
+          tag + size + " integrator=forward-euler physics=k(T),c(T),latent" + simd);
         figure("step_throughput", linear[threads], "node-updates/s",
-          tag + size + " integrator=forward-euler physics=constant-k-c,no-latent");
+          tag + size + " integrator=forward-euler physics=constant-k-c,no-latent" + simd);
+        figure("step_throughput", full_scalar[threads], "node-updates/s",
+          tag + size + " integrator=forward-euler physics=k(T),c(T),latent simd=scalar");
+        figure("step_simd_speedup", full[threads] / full_scalar[threads], "ratio",
+          tag + simd + " over=scalar timing=interleaved");
       }
       if (csr)
       {

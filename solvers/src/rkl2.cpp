@@ -138,12 +138,12 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
       tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
                         [&](const tbb::blocked_range<std::size_t>& r)
                         {
-                          for (std::size_t i = r.begin(); i != r.end(); ++i)
-                          {
-                            d_prev_[i] = mu1 * tau * rate0_[i];
-                            E[i] = y0_[i] + d_prev_[i];
-                            T[i] = model.temperature_after_change(i, E[i], y0_[i], T[i], inverse_capacity_[i]);
-                          }
+                          // E = Y_0 here, so the old E is y0_.
+                          update_heat_and_temperature(model, r.begin(), r.end(), E.data(), T.data(),
+                            inverse_capacity_.data(), [&](std::size_t i, double) {
+                              d_prev_[i] = mu1 * tau * rate0_[i];
+                              return y0_[i] + d_prev_[i];
+                            });
                         });
     });
   hold_fixed(op, T);
@@ -161,17 +161,15 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
         tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
                           [&](const tbb::blocked_range<std::size_t>& r)
                           {
-                            for (std::size_t i = r.begin(); i != r.end(); ++i)
-                            {
-                              // D_j = μ D_{j−1} + ν D_{j−2} + τ (μ̃ M(Y_{j−1}) + γ̃ M(Y_0)); the (1 −
-                              // μ − ν) Y_0 term of the paper vanishes in increments.
-                              const double d = mu * d_prev_[i] + nu * d_prev2_[i] +
-                                               tau * (mu_t * rate_[i] + gamma_t * rate0_[i]);
-                              d_prev2_[i] = d;
-                              const double E_old = E[i];
-                              E[i] = y0_[i] + d;
-                              T[i] = model.temperature_after_change(i, E[i], E_old, T[i], inverse_capacity_[i]);
-                            }
+                            update_heat_and_temperature(model, r.begin(), r.end(), E.data(), T.data(),
+                              inverse_capacity_.data(), [&](std::size_t i, double) {
+                                // D_j = μ D_{j−1} + ν D_{j−2} + τ (μ̃ M(Y_{j−1}) + γ̃ M(Y_0)); the (1 −
+                                // μ − ν) Y_0 term of the paper vanishes in increments.
+                                const double d = mu * d_prev_[i] + nu * d_prev2_[i] +
+                                                 tau * (mu_t * rate_[i] + gamma_t * rate0_[i]);
+                                d_prev2_[i] = d;
+                                return y0_[i] + d;
+                              });
                           });
       });
     hold_fixed(op, T);

@@ -126,12 +126,8 @@ Integrator::Step ForwardEuler::advance(const ThermalModel& model, const HeatOper
   arena.execute([&] { // update and T(E) in one pass over the nodes
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, E.size(), kGrain),
       [&](const tbb::blocked_range<std::size_t>& r) {
-        for (std::size_t i = r.begin(); i != r.end(); ++i)
-        {
-          const double E_old = E[i];
-          E[i] += dt * rate_[i];
-          T[i] = model.temperature_after_change(i, E[i], E_old, T[i], inverse_capacity_[i]);
-        }
+        update_heat_and_temperature(model, r.begin(), r.end(), E.data(), T.data(),
+          inverse_capacity_.data(), [&](std::size_t i, double E_old) { return E_old + dt * rate_[i]; });
       });
   });
   hold_fixed(op, T);

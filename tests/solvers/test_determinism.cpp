@@ -2,10 +2,12 @@
 #include "test_support.h"
 
 #include "ember/integrators.h"
+#include "ember/simd.h"
 
 #include <gtest/gtest.h>
 
 #include <cstring>
+#include <string>
 
 using namespace ember;
 using namespace ember::testing;
@@ -39,6 +41,22 @@ SimulationResult run(int threads, IntegratorKind kind)
   return simulate(model, { top }, { InitialState::Kind::Geotherm, 10, 0.03, 0 },
     { { 1, 1, 0.01 * kSecondsPerYear, 1150 } }, s, *integrator);
 }
+
+/// Every snapshot's temperatures and the heat ledger bit for bit; `what` names the run.
+void expect_same_bits(const SimulationResult& a, const SimulationResult& b, const std::string& what)
+{
+  ASSERT_EQ(a.snapshots.size(), b.snapshots.size()) << what;
+  for (std::size_t k = 0; k < a.snapshots.size(); ++k)
+  {
+    const auto& x = a.snapshots[k].temperature;
+    const auto& y = b.snapshots[k].temperature;
+    ASSERT_EQ(x.size(), y.size()) << what;
+    EXPECT_EQ(0, std::memcmp(x.data(), y.data(), x.size() * sizeof(double)))
+      << what << ", snapshot " << k;
+  }
+  EXPECT_EQ(a.ledger.boundary, b.ledger.boundary) << what;
+  EXPECT_EQ(a.ledger.emplaced, b.ledger.emplaced) << what;
+}
 } // namespace
 
 TEST(Determinism, BitwiseIdenticalForOneTwoAndThreeThreads)
@@ -48,19 +66,26 @@ TEST(Determinism, BitwiseIdenticalForOneTwoAndThreeThreads)
     const SimulationResult one = run(1, kind);
     ASSERT_GT(one.steps, 5u);
     for (int threads : { 2, 3 })
+      expect_same_bits(one, run(threads, kind),
+        integrator_name(kind) + ", " + std::to_string(threads) + " threads");
+  }
+}
+
+// The same run at every SIMD level this processor supports (simd.h): the bits of the scalar
+// loops, so results do not depend on the machine's vector width either.
+TEST(Determinism, BitwiseIdenticalAtEverySimdLevel)
+{
+  const SimdLevel best = best_simd_level();
+  for (IntegratorKind kind : { IntegratorKind::ForwardEuler, IntegratorKind::RKL2 })
+  {
+    set_simd_level(SimdLevel::Scalar);
+    const SimulationResult reference = run(2, kind);
+    for (SimdLevel level : supported_simd_levels())
     {
-      const SimulationResult other = run(threads, kind);
-      ASSERT_EQ(one.snapshots.size(), other.snapshots.size());
-      for (std::size_t k = 0; k < one.snapshots.size(); ++k)
-      {
-        const auto& a = one.snapshots[k].temperature;
-        const auto& b = other.snapshots[k].temperature;
-        ASSERT_EQ(a.size(), b.size());
-        EXPECT_EQ(0, std::memcmp(a.data(), b.data(), a.size() * sizeof(double)))
-          << integrator_name(kind) << ", " << threads << " threads, snapshot " << k;
-      }
-      EXPECT_EQ(one.ledger.boundary, other.ledger.boundary);
-      EXPECT_EQ(one.ledger.emplaced, other.ledger.emplaced);
+      set_simd_level(level);
+      expect_same_bits(reference, run(2, kind),
+        integrator_name(kind) + ", " + simd_level_name(level));
     }
   }
+  set_simd_level(best);
 }

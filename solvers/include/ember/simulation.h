@@ -11,6 +11,7 @@
 
 #include "ember/heat_operator.h"
 
+#include <algorithm>
 #include <functional>
 #include <memory>
 #include <string>
@@ -156,6 +157,29 @@ private:
   std::vector<double> rate_;
   std::vector<double> inverse_capacity_; ///< 1/(dE/dT) from each node's last T(E) solve: its next first guess
 };
+
+/**
+ * The integrators' update pass over nodes [begin, end): E[i] = new_energy(i, E[i]), then T(E)
+ * from the node's last T and inverse capacity (ThermalModel::temperatures_after_change), in
+ * blocks small enough to keep the old E in L1.
+ */
+template <class NewEnergy>
+void update_heat_and_temperature(const ThermalModel& model, std::size_t begin, std::size_t end,
+  double* E, double* T, double* inverse_capacity, const NewEnergy& new_energy)
+{
+  constexpr std::size_t kBlock = 256;
+  double E_old[kBlock];
+  for (std::size_t b = begin; b < end; b += kBlock)
+  {
+    const std::size_t m = std::min(kBlock, end - b);
+    for (std::size_t k = 0; k < m; ++k)
+    {
+      E_old[k] = E[b + k];
+      E[b + k] = new_energy(b + k, E_old[k]);
+    }
+    model.temperatures_after_change(b, m, E + b, E_old, T + b, inverse_capacity + b);
+  }
+}
 
 /// Put the held (fixed-temperature) nodes back at their values after a T(E) pass.
 void hold_fixed(const HeatOperator& op, std::vector<double>& T);

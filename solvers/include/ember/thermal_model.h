@@ -97,6 +97,22 @@ public:
     return solve_temperature(node, E, std::isfinite(guess) ? guess : T_old, inverse_capacity);
   }
 
+  /**
+   * temperature_after_change() for nodes first … first + count − 1 at once: E, E_old, T (in:
+   * T_old, out: T) and inverse_capacity point at the block's first node. Runs of single-rock
+   * nodes of one rock take the Newton step several nodes at a time (simd.h); the results are
+   * the one-node call's, bit for bit.
+   */
+  void temperatures_after_change(std::size_t first, std::size_t count, const double* E,
+    const double* E_old, double* T, double* inverse_capacity) const;
+  /// The arrays the vectorised T(E) reads (thermal_model_batch.cpp), nothing else.
+  struct SingleRockView
+  {
+    const std::uint32_t* share_offsets;
+    const NodeShare* shares;
+    const EnthalpyFit* fits;
+  };
+
   /// Change the rock of the listed cells (an emplacement); node shares are rebuilt.
   void set_cell_rock(const std::vector<std::int64_t>& cells, int rock);
 

@@ -1,0 +1,176 @@
+// ThermalModel::temperatures_after_change: T(E) after a step for a block of nodes, several
+// single-rock nodes at a time. The update pass was the largest part of an explicit step
+// (bench/README.md, "fifth pass"), and per node it is the same straight-line Newton step on
+// the same rock for nearly all nodes — work that vectorises across nodes.
+#include "ember/simd.h"
+#include "ember/thermal_model.h"
+
+#include <cstring>
+
+namespace ember
+{
+namespace
+{
+// GCC vector extensions: element-wise arithmetic, comparisons giving lane masks, and ?: on
+// masks. Built for plain x86-64 they lower to SSE2; the wrappers below compile them again
+// for AVX2 and AVX-512.
+typedef double Lanes2 __attribute__((vector_size(16)));
+typedef double Lanes4 __attribute__((vector_size(32)));
+typedef double Lanes8 __attribute__((vector_size(64)));
+
+template <class V>
+constexpr std::size_t kWidth = sizeof(V) / sizeof(double);
+
+template <class V>
+[[gnu::always_inline]] inline void load(V& v, const double* p)
+{
+  std::memcpy(&v, p, sizeof v);
+}
+template <class V>
+[[gnu::always_inline]] inline void store(double* p, const V& v)
+{
+  std::memcpy(p, &v, sizeof v);
+}
+template <class V>
+[[gnu::always_inline]] inline void splat(V& v, double x)
+{
+  for (std::size_t l = 0; l < kWidth<V>; ++l)
+    v[l] = x;
+}
+
+/**
+ * Lanes of V = consecutive single-rock nodes of one rock: the Newton step of
+ * ThermalModel::settled_newton_step written once more for a vector of nodes, operation for
+ * operation (EnthalpyFit::evaluate, then newton_settled), so every lane gets the bits the
+ * scalar step gives. Lanes whose step is not settled, and blocks that are not W single-rock
+ * nodes of one rock, are handed to the scalar temperature_after_change from their original
+ * inputs.
+ */
+template <class V>
+[[gnu::always_inline]] inline void settle_block(const ThermalModel& model,
+  const ThermalModel::SingleRockView& view, std::size_t first, std::size_t count,
+  const double* E, const double* E_old, double* T, double* inverse_capacity)
+{
+  constexpr std::size_t W = kWidth<V>;
+  const auto scalar = [&](std::size_t k) {
+    T[k] = model.temperature_after_change(first + k, E[k], E_old[k], T[k], inverse_capacity[k]);
+  };
+  std::size_t k = 0;
+  for (; k + W <= count; k += W)
+  {
+    const std::size_t node = first + k;
+    const std::uint32_t o = view.share_offsets[node];
+    bool one_rock = view.share_offsets[node + W] - o == W; // W nodes with one share each
+    const int rock = one_rock ? view.shares[o].rock : 0;
+    for (std::size_t l = 1; one_rock && l < W; ++l)
+      one_rock = view.shares[o + l].rock == rock;
+    if (!one_rock)
+    {
+      for (std::size_t l = 0; l < W; ++l)
+        scalar(k + l);
+      continue;
+    }
+    const EnthalpyFit& fit = view.fits[rock];
+    V m, e, e_old, t_old, ic;
+    for (std::size_t l = 0; l < W; ++l)
+      m[l] = view.shares[o + l].mass;
+    load(e, E + k);
+    load(e_old, E_old + k);
+    load(t_old, T + k);
+    load(ic, inverse_capacity + k);
+    const V guess = t_old + (e - e_old) * ic;
+
+    // EnthalpyFit::evaluate(guess, h, c)
+    V t_lo, t_hi, zero, one;
+    splat(t_lo, fit.t_lo);
+    splat(t_hi, fit.t_hi);
+    splat(zero, 0.0);
+    splat(one, 1.0);
+    const V t = guess < t_lo ? t_lo : (guess > t_hi ? t_hi : guess);
+    const V c_sensible = fit.a0 + t * (2.0 * fit.a1 + t * (3.0 * fit.a2 + t * 4.0 * fit.a3));
+    const V f = (guess - fit.solidus) * fit.inverse_interval;
+    const auto melting = (f > 0.0) & (f < 1.0);
+    V latent_step, melting_capacity;
+    splat(melting_capacity, fit.latent * fit.inverse_interval);
+    latent_step = melting ? f : (f >= 1.0 ? one : zero);
+    const V h = t * (fit.a0 + t * (fit.a1 + t * (fit.a2 + t * fit.a3))) +
+      (guess - t) * c_sensible + fit.latent * latent_step;
+    const V c = c_sensible + (melting ? melting_capacity : zero);
+
+    // The step, and ThermalModel::newton_settled at the guess
+    const V r = m * h - e, C = m * c;
+    const V inverse_C = 1.0 / C;
+    const V T_new = guess - r * inverse_C;
+    const V floor = m * fit.capacity_floor;
+    const V abs_r = r < 0.0 ? -r : r;
+    const V abs_guess = guess < 0.0 ? -guess : guess;
+    V kink;
+    if (fit.latent == 0.0)
+      splat(kink, 1e300);
+    else
+    {
+      const V a = guess - fit.solidus, b = guess - fit.liquidus;
+      const V abs_a = a < 0.0 ? -a : a, abs_b = b < 0.0 ? -b : b;
+      kink = abs_b < abs_a ? abs_b : abs_a; // std::min(|a|, |b|)
+    }
+    const auto settled = (floor > 0.0) & (kink * floor > abs_r) &
+      (m * fit.curvature_bound * r * r <= 2e-9 * (1.0 + abs_guess) * C * floor * floor);
+    bool all = true;
+    for (std::size_t l = 0; l < W; ++l)
+      all = all && settled[l] != 0;
+    if (all)
+    {
+      store(T + k, T_new);
+      store(inverse_capacity + k, inverse_C);
+      continue;
+    }
+    for (std::size_t l = 0; l < W; ++l)
+      if (settled[l] != 0)
+      {
+        T[k + l] = T_new[l];
+        inverse_capacity[k + l] = inverse_C[l];
+      }
+      else
+        scalar(k + l); // from the original T and inverse capacity: the scalar path's bits
+  }
+  for (; k < count; ++k)
+    scalar(k);
+}
+
+#if defined(__x86_64__) && defined(__GNUC__)
+__attribute__((target("avx512f"))) void settle_avx512(const ThermalModel& model,
+  const ThermalModel::SingleRockView& view, std::size_t first, std::size_t count,
+  const double* E, const double* E_old, double* T, double* inverse_capacity)
+{
+  settle_block<Lanes8>(model, view, first, count, E, E_old, T, inverse_capacity);
+}
+__attribute__((target("avx2"))) void settle_avx2(const ThermalModel& model,
+  const ThermalModel::SingleRockView& view, std::size_t first, std::size_t count,
+  const double* E, const double* E_old, double* T, double* inverse_capacity)
+{
+  settle_block<Lanes4>(model, view, first, count, E, E_old, T, inverse_capacity);
+}
+#endif
+} // namespace
+
+void ThermalModel::temperatures_after_change(std::size_t first, std::size_t count,
+  const double* E, const double* E_old, double* T, double* inverse_capacity) const
+{
+  const SingleRockView view{ share_offsets_.data(), shares_.data(), enthalpy_.data() };
+  switch (simd_level())
+  {
+#if defined(__x86_64__) && defined(__GNUC__)
+    case SimdLevel::AVX512:
+      return settle_avx512(*this, view, first, count, E, E_old, T, inverse_capacity);
+    case SimdLevel::AVX2:
+      return settle_avx2(*this, view, first, count, E, E_old, T, inverse_capacity);
+    case SimdLevel::SSE2:
+      return settle_block<Lanes2>(*this, view, first, count, E, E_old, T, inverse_capacity);
+#endif
+    default:
+      for (std::size_t k = 0; k < count; ++k)
+        T[k] = temperature_after_change(first + k, E[k], E_old[k], T[k], inverse_capacity[k]);
+  }
+}
+
+} // namespace ember

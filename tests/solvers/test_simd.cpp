@@ -1,0 +1,131 @@
+// The vectorised node loops give the scalar loops' results bit for bit, at every SIMD level
+// this processor runs (simd.h). The reference is the project's own scalar path, which the
+// verification tests check against published solutions; here only equality is at stake.
+#include "test_support.h"
+
+#include "ember/simd.h"
+
+#include <gtest/gtest.h>
+
+#include <cstring>
+#include <limits>
+#include <random>
+
+using namespace ember;
+using namespace ember::testing;
+
+namespace
+{
+Rock waples_host()
+{
+  Rock r = simple_rock("host", 2.5, 2600, 900);
+  r.heat_capacity.law = HeatCapacity::Law::WaplesWaples;
+  return r;
+}
+Rock basalt_with_latent()
+{
+  Rock r = simple_rock("basalt", 2.2, 2800, 1100);
+  r.latent_heat = 4e5;
+  r.solidus = 980;
+  r.liquidus = 1180;
+  return r;
+}
+
+/// Restores the processor's best level when a test ends, pass or fail.
+struct LevelGuard
+{
+  ~LevelGuard() { set_simd_level(best_simd_level()); }
+};
+
+bool same_bits(double a, double b) { return std::memcmp(&a, &b, sizeof a) == 0; }
+} // namespace
+
+TEST(Simd, LevelsAreOrderedAndTheUnsupportedOnesRefused)
+{
+  LevelGuard guard;
+  const std::vector<SimdLevel> levels = supported_simd_levels();
+  ASSERT_FALSE(levels.empty());
+  EXPECT_EQ(levels.front(), SimdLevel::Scalar);
+  EXPECT_EQ(levels.back(), best_simd_level());
+  for (SimdLevel level : levels)
+  {
+    set_simd_level(level);
+    EXPECT_EQ(simd_level(), level) << simd_level_name(level);
+  }
+  if (best_simd_level() != SimdLevel::AVX512)
+    EXPECT_THROW(set_simd_level(SimdLevel::AVX512), std::invalid_argument);
+}
+
+// Blocks of every length 0 … 40, and the rest of the row, at every offset 0 … 8 of a row of
+// nodes that mixes: single-rock runs of both rocks, rock-contact nodes (two shares), steps
+// that stay in one phase (one settled Newton step), steps ending near or across the solidus
+// and liquidus (iterations), a stale inverse capacity of 0, and a NaN heat content.
+TEST(Simd, BlockTemperaturesEqualTheOneNodeSolveAtEveryLevel)
+{
+  LevelGuard guard;
+  // 96 cells in a row: rocks in runs of 5 to 17 cells, so rock contacts fall at every lane
+  // and runs of one rock fill whole 8-node blocks at some offsets and not at others.
+  const int cells = 96;
+  Mesh mesh = make_box_hex({ 0, 0, 0 }, { double(cells), 1, 1 }, { cells, 1, 1 });
+  std::vector<int> rock(cells, 0);
+  for (int c = 0; c < cells; ++c)
+    rock[c] = (c / 17 + c / 29) % 2;
+  ThermalModel model(mesh, { waples_host(), basalt_with_latent() }, rock);
+  const std::size_t n = mesh.n_points();
+
+  std::mt19937 random(12345); // fixed seed: the same cases every run
+  std::uniform_real_distribution<double> temperature(-20.0, 1400.0), change(-1.0, 1.0);
+  // A step's change of T: mostly below a kelvin (one settled Newton step), some of 10 and
+  // 60 K (iterations).
+  const auto step = [&](std::size_t i) { return change(random) * (i % 10 == 9 ? 60.0 : i % 10 == 8 ? 10.0 : 0.5); };
+  std::vector<double> E(n), E_old(n), T_old(n), inverse_capacity_old(n);
+  const double kinks[] = { 980.0, 1180.0 };
+  for (std::size_t i = 0; i < n; ++i)
+  {
+    T_old[i] = i % 7 == 3 ? kinks[i % 2] + change(random) * 0.5 : temperature(random);
+    E_old[i] = model.energy(i, T_old[i]);
+    E[i] = model.energy(i, T_old[i] + (i % 5 == 0 ? 1e-3 : step(i)));
+    inverse_capacity_old[i] = i % 11 == 4 ? 0.0 : 1.0 / model.capacity(i, T_old[i]);
+  }
+  E[n / 2] = std::numeric_limits<double>::quiet_NaN();
+
+  std::vector<double> T_reference(n), inverse_capacity_reference(n);
+  for (std::size_t i = 0; i < n; ++i)
+  {
+    inverse_capacity_reference[i] = inverse_capacity_old[i];
+    T_reference[i] =
+      model.temperature_after_change(i, E[i], E_old[i], T_old[i], inverse_capacity_reference[i]);
+  }
+  int compared = 0;
+  for (SimdLevel level : supported_simd_levels())
+  {
+    set_simd_level(level);
+    for (std::size_t first = 0; first <= 8; ++first)
+      for (std::size_t count = 0; count <= 41; ++count)
+      {
+        if (count == 41)
+          count = n - first; // the rest of the row: every contact and run
+        std::vector<double> T(T_old.begin() + first, T_old.begin() + first + count);
+        std::vector<double> inverse_capacity(
+          inverse_capacity_old.begin() + first, inverse_capacity_old.begin() + first + count);
+        model.temperatures_after_change(
+          first, count, E.data() + first, E_old.data() + first, T.data(), inverse_capacity.data());
+        for (std::size_t k = 0; k < count; ++k)
+        {
+          const std::size_t i = first + k;
+          ASSERT_TRUE(same_bits(T[k], T_reference[i]))
+            << simd_level_name(level) << ": node " << i << " T " << T[k] << " vs "
+            << T_reference[i];
+          ASSERT_TRUE(same_bits(inverse_capacity[k], inverse_capacity_reference[i]))
+            << simd_level_name(level) << ": node " << i;
+          ++compared;
+        }
+      }
+  }
+  EXPECT_GT(compared, 1000);
+  // The cases are the ones promised: both kinds of node and of Newton path occur.
+  std::size_t contacts = 0;
+  for (std::size_t i = 0; i < n; ++i)
+    contacts += model.shares(i).size() > 1;
+  EXPECT_GT(contacts, 8u);
+}
