@@ -13,9 +13,6 @@ std::atomic<int> chosen{ -1 }; // -1: not chosen yet, use the best
 SimdLevel best_simd_level()
 {
 #if defined(__x86_64__) && defined(__GNUC__)
-  // AVX-512 F is all the 8-wide loops use (no byte/word or conflict-detection instructions).
-  if (__builtin_cpu_supports("avx512f"))
-    return SimdLevel::AVX512;
   if (__builtin_cpu_supports("avx2"))
     return SimdLevel::AVX2;
   return SimdLevel::SSE2;
@@ -56,8 +53,6 @@ std::string simd_level_name(SimdLevel level)
       return "sse2";
     case SimdLevel::AVX2:
       return "avx2";
-    case SimdLevel::AVX512:
-      return "avx512";
   }
   return "unknown";
 }

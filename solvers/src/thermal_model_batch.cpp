@@ -12,11 +12,10 @@ namespace ember
 namespace
 {
 // GCC vector extensions: element-wise arithmetic, comparisons giving lane masks, and ?: on
-// masks. Built for plain x86-64 they lower to SSE2; the wrappers below compile them again
-// for AVX2 and AVX-512.
+// masks. Built for plain x86-64 they lower to SSE2; the wrapper below compiles them again
+// for AVX2.
 typedef double Lanes2 __attribute__((vector_size(16)));
 typedef double Lanes4 __attribute__((vector_size(32)));
-typedef double Lanes8 __attribute__((vector_size(64)));
 
 template <class V>
 constexpr std::size_t kWidth = sizeof(V) / sizeof(double);
@@ -138,12 +137,6 @@ template <class V>
 }
 
 #if defined(__x86_64__) && defined(__GNUC__)
-__attribute__((target("avx512f"))) void settle_avx512(const ThermalModel& model,
-  const ThermalModel::SingleRockView& view, std::size_t first, std::size_t count,
-  const double* E, const double* E_old, double* T, double* inverse_capacity)
-{
-  settle_block<Lanes8>(model, view, first, count, E, E_old, T, inverse_capacity);
-}
 __attribute__((target("avx2"))) void settle_avx2(const ThermalModel& model,
   const ThermalModel::SingleRockView& view, std::size_t first, std::size_t count,
   const double* E, const double* E_old, double* T, double* inverse_capacity)
@@ -160,8 +153,6 @@ void ThermalModel::temperatures_after_change(std::size_t first, std::size_t coun
   switch (simd_level())
   {
 #if defined(__x86_64__) && defined(__GNUC__)
-    case SimdLevel::AVX512:
-      return settle_avx512(*this, view, first, count, E, E_old, T, inverse_capacity);
     case SimdLevel::AVX2:
       return settle_avx2(*this, view, first, count, E, E_old, T, inverse_capacity);
     case SimdLevel::SSE2:
