@@ -402,7 +402,9 @@ TEST(Geometry, HexStiffnessIsAnMMatrixAtAnyAspectRatio)
   for (int a = 0; a < 8; ++a)
     for (int b = 0; b < 8; ++b)
       if (a != b)
+      {
         EXPECT_LE(em.stiffness[a * 8 + b], 0.0) << a << "," << b;
+      }
 }
 
 TEST(Geometry, StiffnessInvariantsOnDistortedCells)
