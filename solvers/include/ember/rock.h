@@ -138,7 +138,8 @@ struct EnthalpyFit
     const double f = (T - solidus) * inverse_interval;
     return sensible_capacity(T) + (f > 0.0 && f < 1.0 ? latent * inverse_interval : 0.0);
   }
-  /// enthalpy(T) and capacity(T) together, sharing the work (T(E)'s Newton iteration).
+  /// enthalpy(T) and capacity(T) together, sharing the work (T(E)'s Newton iteration). Also
+  /// written for vectors of nodes in thermal_model_batch.cpp: change both together.
   void evaluate(double T, double& h, double& c) const
   {
     const double t = T < t_lo ? t_lo : (T > t_hi ? t_hi : T);

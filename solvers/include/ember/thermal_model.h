@@ -134,7 +134,9 @@ private:
       m * fit.curvature_bound * r * r <= 2e-9 * (1.0 + std::abs(T)) * C * floor * floor;
   }
   /// One Newton step for m h(T) = E from T_guess: sets T and inverse_capacity (1/(dE/dT) at
-  /// T_guess); true if newton_settled.
+  /// T_guess); true if newton_settled. With newton_settled and EnthalpyFit::evaluate it is
+  /// written again for vectors of nodes in thermal_model_batch.cpp: change them together
+  /// (test_simd fails on any difference in bits).
   static bool settled_newton_step(const EnthalpyFit& fit, double m, double E, double T_guess,
     double& T, double& inverse_capacity)
   {
