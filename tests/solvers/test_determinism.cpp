@@ -75,7 +75,10 @@ TEST(Determinism, BitwiseIdenticalForOneTwoAndThreeThreads)
 // loops, so results do not depend on the machine's vector width either.
 TEST(Determinism, BitwiseIdenticalAtEverySimdLevel)
 {
-  const SimdLevel best = best_simd_level();
+  struct RestoreBestLevel // also when an assertion ends the test early
+  {
+    ~RestoreBestLevel() { set_simd_level(best_simd_level()); }
+  } restore;
   for (IntegratorKind kind : { IntegratorKind::ForwardEuler, IntegratorKind::RKL2 })
   {
     set_simd_level(SimdLevel::Scalar);
@@ -87,5 +90,4 @@ TEST(Determinism, BitwiseIdenticalAtEverySimdLevel)
         integrator_name(kind) + ", " + simd_level_name(level));
     }
   }
-  set_simd_level(best);
 }

@@ -64,7 +64,7 @@ TEST(Simd, BlockTemperaturesEqualTheOneNodeSolveAtEveryLevel)
 {
   LevelGuard guard;
   // 96 cells in a row: rocks in runs of 5 to 17 cells, so rock contacts fall at every lane
-  // and runs of one rock fill whole 8-node blocks at some offsets and not at others.
+  // and runs of one rock fill whole blocks of lanes at some offsets and not at others.
   const int cells = 96;
   Mesh mesh = make_box_hex({ 0, 0, 0 }, { double(cells), 1, 1 }, { cells, 1, 1 });
   std::vector<int> rock(cells, 0);

@@ -4,11 +4,12 @@
  *
  * The core is built for plain x86-64 (the plugin must load on any such machine); the hot
  * node loops also carry an AVX2 build of themselves, used where the processor runs it. (An
- * AVX-512 build of the T(E) loop, 8 nodes at a time, ran at 0.6 × the speed of the AVX2 one on
- * the machines here — bench/README.md, item 18 — and was dropped.) Every level computes each node with the same operations in the same order,
- * without fused multiply-adds (the core is compiled with -ffp-contract=off), so all levels
- * give the same bits: results do not depend on the machine's vector width, and the scalar
- * level stays the reference the tests compare the others with.
+ * AVX-512 build of the T(E) loop, 8 nodes at a time, ran at 0.6 × the speed of the AVX2 one
+ * on the machines here — bench/README.md, item 19 — and was dropped.) Every level computes
+ * each node with the same operations in the same order, without fused multiply-adds (the
+ * core is compiled with -ffp-contract=off), so all levels give the same bits: results do not
+ * depend on the machine's vector width, and the scalar level stays the reference the tests
+ * compare the others with.
  */
 #pragma once
 
