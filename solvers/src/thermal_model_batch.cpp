@@ -46,33 +46,37 @@ template <class V>
  * inputs.
  */
 template <class V>
-[[gnu::always_inline]] inline void settle_block(const ThermalModel& model,
-  const ThermalModel::SingleRockView& view, std::size_t first, std::size_t count,
-  const double* E, const double* E_old, double* T, double* inverse_capacity)
+[[gnu::always_inline]] inline void settle_block(const ThermalModel& model, std::size_t first,
+  std::size_t count, const double* E, const double* E_old, double* T, double* inverse_capacity)
 {
   constexpr std::size_t W = kWidth<V>;
   const auto scalar = [&](std::size_t k) {
     T[k] = model.temperature_after_change(first + k, E[k], E_old[k], T[k], inverse_capacity[k]);
   };
+  const std::vector<EnthalpyFit>& fits = model.enthalpy_fits();
   std::size_t k = 0;
   for (; k + W <= count; k += W)
   {
     const std::size_t node = first + k;
-    const std::uint32_t o = view.share_offsets[node];
-    bool one_rock = view.share_offsets[node + W] - o == W; // W nodes with one share each
-    const int rock = one_rock ? view.shares[o].rock : 0;
-    for (std::size_t l = 1; one_rock && l < W; ++l)
-      one_rock = view.shares[o + l].rock == rock;
+    // W nodes with one share each, all of one rock
+    const NodeShare* share[W];
+    bool one_rock = true;
+    for (std::size_t l = 0; one_rock && l < W; ++l)
+    {
+      const auto node_shares = model.shares(node + l);
+      one_rock = node_shares.size() == 1 && (l == 0 || node_shares[0].rock == share[0]->rock);
+      share[l] = node_shares.data();
+    }
     if (!one_rock)
     {
       for (std::size_t l = 0; l < W; ++l)
         scalar(k + l);
       continue;
     }
-    const EnthalpyFit& fit = view.fits[rock];
+    const EnthalpyFit& fit = fits[share[0]->rock];
     V m, e, e_old, t_old, ic;
     for (std::size_t l = 0; l < W; ++l)
-      m[l] = view.shares[o + l].mass;
+      m[l] = share[l]->mass;
     load(e, E + k);
     load(e_old, E_old + k);
     load(t_old, T + k);
@@ -137,11 +141,10 @@ template <class V>
 }
 
 #if defined(__x86_64__) && defined(__GNUC__)
-__attribute__((target("avx2"))) void settle_avx2(const ThermalModel& model,
-  const ThermalModel::SingleRockView& view, std::size_t first, std::size_t count,
-  const double* E, const double* E_old, double* T, double* inverse_capacity)
+__attribute__((target("avx2"))) void settle_avx2(const ThermalModel& model, std::size_t first,
+  std::size_t count, const double* E, const double* E_old, double* T, double* inverse_capacity)
 {
-  settle_block<Lanes4>(model, view, first, count, E, E_old, T, inverse_capacity);
+  settle_block<Lanes4>(model, first, count, E, E_old, T, inverse_capacity);
 }
 #endif
 } // namespace
@@ -149,14 +152,13 @@ __attribute__((target("avx2"))) void settle_avx2(const ThermalModel& model,
 void ThermalModel::temperatures_after_change(std::size_t first, std::size_t count,
   const double* E, const double* E_old, double* T, double* inverse_capacity) const
 {
-  const SingleRockView view{ share_offsets_.data(), shares_.data(), enthalpy_.data() };
   switch (simd_level())
   {
 #if defined(__x86_64__) && defined(__GNUC__)
     case SimdLevel::AVX2:
-      return settle_avx2(*this, view, first, count, E, E_old, T, inverse_capacity);
+      return settle_avx2(*this, first, count, E, E_old, T, inverse_capacity);
     case SimdLevel::SSE2:
-      return settle_block<Lanes2>(*this, view, first, count, E, E_old, T, inverse_capacity);
+      return settle_block<Lanes2>(*this, first, count, E, E_old, T, inverse_capacity);
 #endif
     default:
       for (std::size_t k = 0; k < count; ++k)

@@ -105,13 +105,6 @@ public:
    */
   void temperatures_after_change(std::size_t first, std::size_t count, const double* E,
     const double* E_old, double* T, double* inverse_capacity) const;
-  /// The arrays the vectorised T(E) reads (thermal_model_batch.cpp), nothing else.
-  struct SingleRockView
-  {
-    const std::uint32_t* share_offsets;
-    const NodeShare* shares;
-    const EnthalpyFit* fits;
-  };
 
   /// Change the rock of the listed cells (an emplacement); node shares are rebuilt.
   void set_cell_rock(const std::vector<std::int64_t>& cells, int rock);
