@@ -244,9 +244,9 @@ void step_breakdown(Problem& p, int threads, const std::string& mesh_name)
   // Update and T(E) over one stable step's change of E (with E and T already consistent the
   // Newton iteration would stop at once and flatter the figure); E and T are reset each time.
   const std::vector<double> T_old = p.T, E_old = p.E;
-  std::vector<double> inverse_capacity_old(T_old.size()), inverse_capacity; // as the last solve leaves it
+  std::vector<float> inverse_capacity_old(T_old.size()), inverse_capacity; // as the last solve leaves it
   for (std::size_t i = 0; i < T_old.size(); ++i)
-    inverse_capacity_old[i] = 1.0 / p.model->capacity(i, T_old[i]);
+    inverse_capacity_old[i] = static_cast<float>(1.0 / p.model->capacity(i, T_old[i]));
   figure("update_and_temperature_throughput",
          n / best_time(repeats,
                        [&]
@@ -346,20 +346,21 @@ std::function<void()> spmv_function(const Csr& a, tbb::task_arena& arena)
 // writes once (compulsory traffic; a written array counts 16 B per double: write-allocate plus
 // write-back; the gathers along the edges are assumed to hit cache). Per pass:
 //   conductivity: T 8, node rock 1, (T, k) pair out 32;
-//   rate + stable step: edge start 4, mixed-edge start 4, (T, k) 16, source 8, inverse
-//     capacity 8, node kind 1, rate out 16; per edge neighbour 4 + half-weight 8, and the
-//     rock byte on edges with a mixed-rock end;
-//   update + T(E): rate 8, E in/out 16, T in/out 16, last 1/capacity in/out 16, share offset
-//     4, 24 per node share.
+//   rate + stable step: edge start 4, (T, k) 16, source 8, inverse capacity (float) 4, node
+//     kind 1, rate out 16; per edge neighbour 4 + half-weight 8, and the mixed-edge start 4
+//     and the rock byte on the nodes and edges with a rock-contact end;
+//   update + T(E): rate 8, E in/out 16, T in/out 16, last 1/capacity (float) in/out 8, share
+//     offset 4, per node share its rock 1 and mass 8.
 double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
 {
   const double n = model.n_nodes();
   double shares = 0;
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
-  const double rate = n * (8 + 1 + 32) + n * (4 + 4 + 16 + 8 + 8 + 1 + 16) +
-    op.edge_entries() * (4.0 + 8) + op.mixed_edge_entries() * 1.0;
-  const double update = n * (8 + 16 + 16 + 16 + 4) + shares * 24;
+  const double rate = n * (8 + 1 + 32) + n * (4 + 16 + 8 + 4 + 1 + 16) +
+    op.edge_entries() * (4.0 + 8) + op.mixed_edge_entries() * 1.0 +
+    op.nodes_with_mixed_edges() * 4.0;
+  const double update = n * (8 + 16 + 16 + 8 + 4) + shares * (1 + 8);
   return (rate + update) / n;
 }
 
@@ -380,15 +381,18 @@ StateBytes state_bytes_per_node(const ThermalModel& model, const HeatOperator& o
     shares += model.shares(i).size();
   StateBytes b;
   b.mesh = (n * 24 + cells * (1 + 8 + 4) + slots * 8) / n;
-  b.model = (cells * 4 + slots * 8 + (n + 1) * 4 + shares * sizeof(NodeShare) + n * 16) /
-    n; // cell rock, cell-node volumes, share offsets, shares, node volume + source
+  b.model = (cells * 4 + slots * 8 + (n + 1) * 4 + shares * (1 + 8 + 8) + n * 16) /
+    n; // cell rock, cell-node volumes, share offsets, share rock + mass + volume, node volume + source
   b.op = op.bytes_per_node();
-  b.vectors = 8 * 2 + 8 * (kind == IntegratorKind::RKL2 ? 7 : 2); // E, T + integrator
+  // E, T + integrator: its vectors and the kept inverse capacities (float)
+  b.vectors = 8 * 2 + 8 * (kind == IntegratorKind::RKL2 ? 6 : 1) + 4;
   return b;
 }
 
 // ---- Sections ---------------------------------------------------------------------------------
 double triad_two_threads = 0.0;
+/// Meshes the step, CSR and profile sections use (false: hexahedra, true: tetrahedra).
+std::vector<bool> meshes = { false, true };
 
 void section_stream()
 {
@@ -407,7 +411,7 @@ void section_step_and_csr(bool step, bool csr)
     triad_two_threads = stream_triad(2);
   const double nodes = quick ? 1e5 : 1e6;
   const int rounds = quick ? 1 : 4, repeats = quick ? 2 : 5;
-  for (bool tets : { false, true })
+  for (bool tets : meshes)
   {
     const std::string mesh_name = tets ? "tet" : "hex";
     const auto setup_start = Clock::now();
@@ -635,7 +639,7 @@ void section_sill()
 void section_profile()
 {
   const int steps = quick ? 20 : 300;
-  for (bool tets : { false, true })
+  for (bool tets : meshes)
   {
     Problem p = make_problem(quick ? 1e5 : 1e6, tets);
     tbb::task_arena arena(2);
@@ -655,14 +659,22 @@ int main(int argc, char** argv)
   std::set<std::string> sections;
   for (int i = 1; i < argc; ++i)
   {
+    static const std::set<std::string> known = { "stream", "step", "csr", "growth", "memory",
+      "sill", "profile" };
     if (std::strcmp(argv[i], "--quick") == 0)
       quick = true;
-    else if (std::strcmp(argv[i], "--section") == 0 && i + 1 < argc)
+    else if (std::strcmp(argv[i], "--section") == 0 && i + 1 < argc && known.count(argv[i + 1]))
       sections.insert(argv[++i]);
+    else if (std::strcmp(argv[i], "--mesh") == 0 && i + 1 < argc &&
+             (std::strcmp(argv[i + 1], "hex") == 0 || std::strcmp(argv[i + 1], "tet") == 0))
+      meshes = { std::strcmp(argv[++i], "tet") == 0 };
     else
     {
-      std::fprintf(
-        stderr, "usage: %s [--quick] [--section stream|step|csr|growth|memory|sill|profile]...\n", argv[0]);
+      std::fprintf(stderr,
+        "%s: unknown or incomplete option '%s'\n"
+        "usage: %s [--quick] [--section stream|step|csr|growth|memory|sill|profile]... "
+        "[--mesh hex|tet]\n",
+        argv[0], argv[i], argv[0]);
       return 2;
     }
   }

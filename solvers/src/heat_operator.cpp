@@ -24,6 +24,15 @@ constexpr std::size_t kGrain = 2048;
 
 double kelvin(double T) { return T + kKelvinOffset; }
 
+// The nearest float at or above x (x positive).
+float round_up_to_float(double x)
+{
+  if (!(x <= std::numeric_limits<float>::max()))
+    return std::numeric_limits<float>::infinity();
+  const float f = static_cast<float>(x);
+  return static_cast<double>(f) >= x ? f : std::nextafter(f, std::numeric_limits<float>::infinity());
+}
+
 bool has_radiation(BoundaryCondition::Kind k)
 {
   return k == BoundaryCondition::Kind::Radiation ||
@@ -231,17 +240,19 @@ void HeatOperator::build_edges()
       throw std::invalid_argument("mesh too large for the heat operator: more than 2^32 - 1 "
                                   "node-to-node couplings");
     edge_start_[i + 1] = static_cast<std::uint32_t>(edge_node_.size());
-    node_kind_[i] &= static_cast<std::uint8_t>(~kSignedWeights);
+    node_kind_[i] &= static_cast<std::uint8_t>(~(kSignedWeights | kMixedEdges));
     for (std::uint32_t k = edge_start_[i]; k < edge_start_[i + 1]; ++k)
       if (edge_weight_[k] < 0.0)
         node_kind_[i] |= kSignedWeights;
+    if (edge_mixed_start_[i] != edge_start_[i + 1])
+      node_kind_[i] |= kMixedEdges;
   }
 }
 
 void HeatOperator::refresh()
 {
   const ThermalModel& model = *model_;
-  inverse_capacity_.assign(model.n_nodes(), 0.0);
+  inverse_capacity_.assign(model.n_nodes(), 0.0f);
   source_total_ = 0.0; // sequential: one fixed summation order
   const std::vector<EnthalpyFit>& fits = model.enthalpy_fits();
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
@@ -250,7 +261,7 @@ void HeatOperator::refresh()
     for (const NodeShare& s : model.shares(i))
       min_capacity += s.mass * fits[s.rock].capacity_floor;
     if (!(node_kind_[i] & kHeld) && min_capacity > 0.0)
-      inverse_capacity_[i] = 1.0 / min_capacity;
+      inverse_capacity_[i] = round_up_to_float(1.0 / min_capacity);
     if (!(node_kind_[i] & kHeld))
       source_total_ += model.node_source(i);
   }
@@ -272,12 +283,18 @@ std::size_t HeatOperator::mixed_edge_entries() const
   return count;
 }
 
+std::size_t HeatOperator::nodes_with_mixed_edges() const
+{
+  return static_cast<std::size_t>(std::count_if(node_kind_.begin(), node_kind_.end(),
+    [](std::uint8_t kind) { return (kind & kMixedEdges) != 0; }));
+}
+
 double HeatOperator::bytes_per_node() const
 {
   const double n = static_cast<double>(model_->n_nodes());
   const double edges = static_cast<double>(edge_node_.size());
   return (edges * (4 + 8 + 1) + (n + 1) * 4) / n + 4 /* mixed start */ +
-    8 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ + 16 /* T, k */ +
+    4 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ + 16 /* T, k */ +
     static_cast<double>(flux_nodes_.size()) * (4 + 8) / n;
 }
 
@@ -287,6 +304,7 @@ double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) con
   const ThermalModel& model = *model_;
   const std::uint32_t* start = edge_start_.data();
   const std::uint32_t* mixed_start = edge_mixed_start_.data();
+  const std::uint8_t* kind = node_kind_.data();
   const std::uint32_t* neighbour = edge_node_.data();
   const double* half_weight = edge_weight_.data();
   const NodeTK* tk = node_tk_.data();
@@ -310,12 +328,14 @@ double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) con
       };
       const double ki = tk[i].k;
       std::uint32_t k = start[i];
-      for (const std::uint32_t single_end = mixed_start[i]; k < single_end; ++k)
+      const std::uint32_t end_i = start[i + 1];
+      for (const std::uint32_t single_end = kind[i] & kMixedEdges ? mixed_start[i] : end_i;
+           k < single_end; ++k)
       {
         const std::uint32_t j = neighbour[k];
         exchange(half_weight[k] * (ki + tk[j].k), tk[j].T);
       }
-      for (const std::uint32_t end_i = start[i + 1]; k < end_i; ++k)
+      for (; k < end_i; ++k)
       {
         const double Tj = tk[neighbour[k]].T;
         exchange(conductance(k, Ti, Tj), Tj);
@@ -323,7 +343,7 @@ double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) con
     };
     // With no negative weight at the node (bricks, non-obtuse tetrahedra), Σ|G| = ΣG: the
     // loop without |G| serves nearly every node.
-    const bool signed_weights = Bound && (node_kind_[i] & kSignedWeights);
+    const bool signed_weights = Bound && (kind[i] & kSignedWeights);
     if (signed_weights)
       exchange_all.template operator()<Bound>();
     else
@@ -335,7 +355,7 @@ double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) con
       // |A_ii| + Σ_j |A_ij|
       const double stiffness = signed_weights ? std::abs(g_sum) + g_abs : 2.0 * g_sum;
       worst = std::max(worst, stiffness * inverse_capacity_[i]);
-      if (node_kind_[i] & kFluxFace)
+      if (kind[i] & kFluxFace)
         flux_stiffness_[next_flux++] = stiffness;
     }
   }

@@ -123,7 +123,7 @@ Integrator::Step Rkl2::advance(const ThermalModel& model,
   last_tau_ = tau;
 
   y0_ = E;
-  inverse_capacity_.resize(n, 0.0); // a stale one only makes a worse first guess
+  inverse_capacity_.resize(n, 0.0f); // a stale one only makes a worse first guess
   d_prev_.assign(n, 0.0);  // D_{j-1}
   d_prev2_.assign(n, 0.0); // D_{j-2}, overwritten in place by D_j
   // The tallies follow the same recursion as D (they are Σ_i of its rate terms), so the heat

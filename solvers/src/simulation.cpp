@@ -122,7 +122,7 @@ Integrator::Step ForwardEuler::advance(const ThermalModel& model, const HeatOper
   const double dt_stable = safety * op.rate_and_stable_step(T, rate_, power, arena);
   // Split the interval evenly rather than leave a sliver at its end.
   const double dt = dt_max / std::max(1.0, std::ceil(dt_max / dt_stable * (1.0 - 1e-12)));
-  inverse_capacity_.resize(E.size(), 0.0); // a stale one only makes a worse first guess
+  inverse_capacity_.resize(E.size(), 0.0f); // a stale one only makes a worse first guess
   arena.execute([&] { // update and T(E) in one pass over the nodes
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, E.size(), kGrain),
       [&](const tbb::blocked_range<std::size_t>& r) {

@@ -15,6 +15,8 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
 {
   if (rocks_.empty())
     throw PropertyError("no rock types given");
+  if (rocks_.size() > 256)
+    throw PropertyError(std::to_string(rocks_.size()) + " rock types given; at most 256");
   for (const Rock& rock : rocks_)
   {
     validate(rock);
@@ -37,7 +39,9 @@ void ThermalModel::build_shares()
   const Mesh& mesh = *mesh_;
   const std::size_t n = mesh.n_points();
   share_offsets_.assign(n + 1, 0);
-  shares_.clear();
+  share_rock_.clear();
+  share_mass_.clear();
+  share_volume_.clear();
   node_volume_.assign(n, 0.0);
   node_source_.assign(n, 0.0);
   std::vector<NodeShare> local;
@@ -60,10 +64,13 @@ void ThermalModel::build_shares()
       node_volume_[i] += volume;
       node_source_[i] += volume * rocks_[rock].heat_production;
     }
-    for (NodeShare& s : local)
-      s.mass = s.volume * rocks_[s.rock].density;
-    shares_.insert(shares_.end(), local.begin(), local.end());
-    share_offsets_[i + 1] = static_cast<std::uint32_t>(shares_.size());
+    for (const NodeShare& s : local)
+    {
+      share_rock_.push_back(static_cast<std::uint8_t>(s.rock));
+      share_mass_.push_back(s.volume * rocks_[s.rock].density);
+      share_volume_.push_back(s.volume);
+    }
+    share_offsets_[i + 1] = static_cast<std::uint32_t>(share_rock_.size());
   }
 }
 

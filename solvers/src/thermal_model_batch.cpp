@@ -16,6 +16,21 @@ namespace
 // for AVX2.
 typedef double Lanes2 __attribute__((vector_size(16)));
 typedef double Lanes4 __attribute__((vector_size(32)));
+// The same lanes in single precision, for the kept inverse capacities.
+typedef float Floats2 __attribute__((vector_size(8)));
+typedef float Floats4 __attribute__((vector_size(16)));
+template <class V>
+struct FloatsOf;
+template <>
+struct FloatsOf<Lanes2>
+{
+  using type = Floats2;
+};
+template <>
+struct FloatsOf<Lanes4>
+{
+  using type = Floats4;
+};
 
 template <class V>
 constexpr std::size_t kWidth = sizeof(V) / sizeof(double);
@@ -29,6 +44,19 @@ template <class V>
 [[gnu::always_inline]] inline void store(double* p, const V& v)
 {
   std::memcpy(p, &v, sizeof v);
+}
+template <class V>
+[[gnu::always_inline]] inline void load(V& v, const float* p)
+{
+  typename FloatsOf<V>::type f;
+  std::memcpy(&f, p, sizeof f);
+  v = __builtin_convertvector(f, V);
+}
+template <class V>
+[[gnu::always_inline]] inline void store(float* p, const V& v)
+{
+  const auto f = __builtin_convertvector(v, typename FloatsOf<V>::type);
+  std::memcpy(p, &f, sizeof f);
 }
 template <class V>
 [[gnu::always_inline]] inline void splat(V& v, double x)
@@ -47,7 +75,7 @@ template <class V>
  */
 template <class V>
 [[gnu::always_inline]] inline void settle_block(const ThermalModel& model, std::size_t first,
-  std::size_t count, const double* E, const double* E_old, double* T, double* inverse_capacity)
+  std::size_t count, const double* E, const double* E_old, double* T, float* inverse_capacity)
 {
   constexpr std::size_t W = kWidth<V>;
   const auto scalar = [&](std::size_t k) {
@@ -59,13 +87,18 @@ template <class V>
   {
     const std::size_t node = first + k;
     // W nodes with one share each, all of one rock
-    const NodeShare* share[W];
+    V m;
+    int rock = -1;
     bool one_rock = true;
     for (std::size_t l = 0; one_rock && l < W; ++l)
     {
-      const auto node_shares = model.shares(node + l);
-      one_rock = node_shares.size() == 1 && (l == 0 || node_shares[0].rock == share[0]->rock);
-      share[l] = node_shares.data();
+      const NodeShares node_shares = model.shares(node + l);
+      one_rock = node_shares.size() == 1 && (l == 0 || node_shares[0].rock == rock);
+      if (one_rock)
+      {
+        rock = node_shares[0].rock;
+        m[l] = node_shares[0].mass;
+      }
     }
     if (!one_rock)
     {
@@ -73,10 +106,8 @@ template <class V>
         scalar(k + l);
       continue;
     }
-    const EnthalpyFit& fit = fits[share[0]->rock];
-    V m, e, e_old, t_old, ic;
-    for (std::size_t l = 0; l < W; ++l)
-      m[l] = share[l]->mass;
+    const EnthalpyFit& fit = fits[rock];
+    V e, e_old, t_old, ic;
     load(e, E + k);
     load(e_old, E_old + k);
     load(t_old, T + k);
@@ -131,7 +162,7 @@ template <class V>
       if (settled[l] != 0)
       {
         T[k + l] = T_new[l];
-        inverse_capacity[k + l] = inverse_C[l];
+        inverse_capacity[k + l] = static_cast<float>(inverse_C[l]);
       }
       else
         scalar(k + l); // from the original T and inverse capacity: the scalar path's bits
@@ -142,7 +173,7 @@ template <class V>
 
 #if defined(__x86_64__) && defined(__GNUC__)
 __attribute__((target("avx2"))) void settle_avx2(const ThermalModel& model, std::size_t first,
-  std::size_t count, const double* E, const double* E_old, double* T, double* inverse_capacity)
+  std::size_t count, const double* E, const double* E_old, double* T, float* inverse_capacity)
 {
   settle_block<Lanes4>(model, first, count, E, E_old, T, inverse_capacity);
 }
@@ -150,7 +181,7 @@ __attribute__((target("avx2"))) void settle_avx2(const ThermalModel& model, std:
 } // namespace
 
 void ThermalModel::temperatures_after_change(std::size_t first, std::size_t count,
-  const double* E, const double* E_old, double* T, double* inverse_capacity) const
+  const double* E, const double* E_old, double* T, float* inverse_capacity) const
 {
   switch (simd_level())
   {

@@ -78,6 +78,15 @@ TEST(BadInput, RegionWithoutRockType)
   expect_message([&] { ThermalModel(mesh, { good() }, { 0, -1 }); }, "cell 1", "region 7");
 }
 
+TEST(BadInput, TooManyRockTypes)
+{
+  // The model keeps each node share's rock in one byte.
+  Mesh mesh = make_box_hex({ 0, 0, 0 }, { 2, 1, 1 }, { 2, 1, 1 });
+  expect_message([&] { ThermalModel(mesh, std::vector<Rock>(257, good()), { 0, 256 }); },
+    "257 rock types", "at most 256");
+  EXPECT_NO_THROW(ThermalModel(mesh, std::vector<Rock>(256, good()), { 0, 255 }));
+}
+
 TEST(BadInput, InvertedCellIsNamed)
 {
   Mesh mesh = make_box_hex({ 0, 0, 0 }, { 3, 1, 1 }, { 3, 1, 1 });

@@ -153,7 +153,7 @@ TEST(Rock, TemperatureAfterChangeMeetsItsTolerance)
         for (double sign : { -1.0, 1.0 })
         {
           const double T_new = T_old + sign * change;
-          double inverse_capacity = 1.0 / model.capacity(node, T_old);
+          float inverse_capacity = static_cast<float>(1.0 / model.capacity(node, T_old));
           const double T = model.temperature_after_change(
             node, model.energy(node, T_new), model.energy(node, T_old), T_old, inverse_capacity);
           EXPECT_NEAR(T, T_new, 1e-9 * (1 + std::abs(T_new)) + 1e-11)

@@ -37,7 +37,11 @@ struct LevelGuard
   ~LevelGuard() { set_simd_level(best_simd_level()); }
 };
 
-bool same_bits(double a, double b) { return std::memcmp(&a, &b, sizeof a) == 0; }
+template <class Real>
+bool same_bits(Real a, Real b)
+{
+  return std::memcmp(&a, &b, sizeof a) == 0;
+}
 } // namespace
 
 TEST(Simd, LevelsAreOrderedAndTheUnsupportedOnesRefused)
@@ -53,7 +57,9 @@ TEST(Simd, LevelsAreOrderedAndTheUnsupportedOnesRefused)
     EXPECT_EQ(simd_level(), level) << simd_level_name(level);
   }
   if (best_simd_level() != SimdLevel::AVX2)
+  {
     EXPECT_THROW(set_simd_level(SimdLevel::AVX2), std::invalid_argument);
+  }
 }
 
 // Blocks of every length 0 … 40, and the rest of the row, at every offset 0 … 8 of a row of
@@ -78,18 +84,21 @@ TEST(Simd, BlockTemperaturesEqualTheOneNodeSolveAtEveryLevel)
   // A step's change of T: mostly below a kelvin (one settled Newton step), some of 10 and
   // 60 K (iterations).
   const auto step = [&](std::size_t i) { return change(random) * (i % 10 == 9 ? 60.0 : i % 10 == 8 ? 10.0 : 0.5); };
-  std::vector<double> E(n), E_old(n), T_old(n), inverse_capacity_old(n);
+  std::vector<double> E(n), E_old(n), T_old(n);
+  std::vector<float> inverse_capacity_old(n);
   const double kinks[] = { 980.0, 1180.0 };
   for (std::size_t i = 0; i < n; ++i)
   {
     T_old[i] = i % 7 == 3 ? kinks[i % 2] + change(random) * 0.5 : temperature(random);
     E_old[i] = model.energy(i, T_old[i]);
     E[i] = model.energy(i, T_old[i] + (i % 5 == 0 ? 1e-3 : step(i)));
-    inverse_capacity_old[i] = i % 11 == 4 ? 0.0 : 1.0 / model.capacity(i, T_old[i]);
+    inverse_capacity_old[i] =
+      i % 11 == 4 ? 0.0f : static_cast<float>(1.0 / model.capacity(i, T_old[i]));
   }
   E[n / 2] = std::numeric_limits<double>::quiet_NaN();
 
-  std::vector<double> T_reference(n), inverse_capacity_reference(n);
+  std::vector<double> T_reference(n);
+  std::vector<float> inverse_capacity_reference(n);
   for (std::size_t i = 0; i < n; ++i)
   {
     inverse_capacity_reference[i] = inverse_capacity_old[i];
@@ -106,7 +115,7 @@ TEST(Simd, BlockTemperaturesEqualTheOneNodeSolveAtEveryLevel)
         if (count == 41)
           count = n - first; // the rest of the row: every contact and run
         std::vector<double> T(T_old.begin() + first, T_old.begin() + first + count);
-        std::vector<double> inverse_capacity(
+        std::vector<float> inverse_capacity(
           inverse_capacity_old.begin() + first, inverse_capacity_old.begin() + first + count);
         model.temperatures_after_change(
           first, count, E.data() + first, E_old.data() + first, T.data(), inverse_capacity.data());

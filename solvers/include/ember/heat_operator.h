@@ -106,6 +106,8 @@ public:
   std::size_t edge_entries() const { return edge_node_.size(); }
   /// Those of them with an end that is not a single-rock node of the edge's rock.
   std::size_t mixed_edge_entries() const;
+  /// Nodes with such entries.
+  std::size_t nodes_with_mixed_edges() const;
   /// Bytes this operator keeps per node (edges, capacities, flags; boundary groups apart).
   double bytes_per_node() const;
 
@@ -142,7 +144,8 @@ private:
     kInterior = 0,
     kHeld = 1,          ///< fixed temperature
     kFluxFace = 2,      ///< on a radiation / convection / heat-flow boundary group
-    kSignedWeights = 4  ///< has a negative edge weight (obtuse cells): Σ|G| ≠ ΣG
+    kSignedWeights = 4, ///< has a negative edge weight (obtuse cells): Σ|G| ≠ ΣG
+    kMixedEdges = 8     ///< has edges with a rock-contact end (edge_mixed_start_ applies)
   };
 
   const ThermalModel* model_;
@@ -150,12 +153,15 @@ private:
   std::vector<std::pair<std::int64_t, double>> fixed_;
   std::vector<std::uint8_t> node_kind_;
   /// 1 / (smallest sensible heat capacity [J/K]) of free nodes, 0 for held ones: the
-  /// sweep's bound multiplies, no branch.
-  std::vector<double> inverse_capacity_;
+  /// sweep's bound multiplies, no branch. Single precision rounded up (a bound needs no more,
+  /// and stays a bound), 4 B less for the sweep to stream.
+  std::vector<float> inverse_capacity_;
   double source_total_ = 0.0;        ///< Σ radiogenic heat of the free nodes [W]
   /// Node i's edges at [edge_start_[i], edge_start_[i+1]), sorted by (neighbour, rock): the
   /// fixed summation order behind thread-count independence. Edges between two single-rock
-  /// nodes come first, up to edge_mixed_start_[i]: their ends' k are node_tk_ entries.
+  /// nodes come first, up to edge_mixed_start_[i]: their ends' k are node_tk_ entries. The
+  /// sweep reads edge_mixed_start_[i] only at kMixedEdges nodes; at the others it is
+  /// edge_start_[i + 1].
   std::vector<std::uint32_t> edge_start_;
   std::vector<std::uint32_t> edge_mixed_start_;
   std::vector<std::uint32_t> edge_node_;

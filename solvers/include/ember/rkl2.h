@@ -87,7 +87,7 @@ private:
   // the change rather than to the large absolute heat content (the ledger closes tighter).
   // rate0_prev_ is M(Y_0) of the previous super-step, for the accuracy control.
   std::vector<double> y0_, rate0_, rate0_prev_, rate_, d_prev_, d_prev2_;
-  std::vector<double> inverse_capacity_; ///< 1/(dE/dT) from each node's last T(E) solve: its next first guess
+  std::vector<float> inverse_capacity_; ///< 1/(dE/dT) from each node's last T(E) solve: its next first guess
 };
 
 } // namespace ember

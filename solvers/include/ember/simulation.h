@@ -155,7 +155,7 @@ public:
 
 private:
   std::vector<double> rate_;
-  std::vector<double> inverse_capacity_; ///< 1/(dE/dT) from each node's last T(E) solve: its next first guess
+  std::vector<float> inverse_capacity_; ///< 1/(dE/dT) from each node's last T(E) solve: its next first guess
 };
 
 /**
@@ -165,7 +165,7 @@ private:
  */
 template <class NewEnergy>
 void update_heat_and_temperature(const ThermalModel& model, std::size_t begin, std::size_t end,
-  double* E, double* T, double* inverse_capacity, const NewEnergy& new_energy)
+  double* E, double* T, float* inverse_capacity, const NewEnergy& new_energy)
 {
   constexpr std::size_t kBlock = 256;
   double E_old[kBlock];

@@ -30,6 +30,44 @@ struct NodeShare
   double volume = 0.0; ///< [m³]
 };
 
+/**
+ * One node's shares, read from the model's per-share arrays. The arrays are kept apart, not as
+ * NodeShare structs, because T(E) runs on every node every step and needs only each share's
+ * rock and mass: 9 bytes instead of a 24-byte struct (bench/README.md, item 20).
+ */
+class NodeShares
+{
+public:
+  NodeShares(const std::uint8_t* rock, const double* mass, const double* volume, std::size_t size)
+    : rock_(rock), mass_(mass), volume_(volume), size_(size)
+  {
+  }
+  std::size_t size() const { return size_; }
+  bool empty() const { return size_ == 0; }
+  NodeShare operator[](std::size_t k) const { return { rock_[k], mass_[k], volume_[k] }; }
+
+  struct Iterator
+  {
+    const NodeShares* shares;
+    std::size_t k;
+    NodeShare operator*() const { return (*shares)[k]; }
+    Iterator& operator++()
+    {
+      ++k;
+      return *this;
+    }
+    bool operator!=(const Iterator& other) const { return k != other.k; }
+  };
+  Iterator begin() const { return { this, 0 }; }
+  Iterator end() const { return { this, size_ }; }
+
+private:
+  const std::uint8_t* rock_;
+  const double* mass_;
+  const double* volume_;
+  std::size_t size_;
+};
+
 class ThermalModel
 {
 public:
@@ -47,10 +85,11 @@ public:
   std::size_t n_nodes() const { return mesh_->n_points(); }
 
   /// Shares of node i (the rock types of its cells, ascending by first appearance).
-  std::span<const NodeShare> shares(std::size_t node) const
+  NodeShares shares(std::size_t node) const
   {
-    return { shares_.data() + share_offsets_[node],
-      static_cast<std::size_t>(share_offsets_[node + 1] - share_offsets_[node]) };
+    const std::uint32_t first = share_offsets_[node];
+    return { share_rock_.data() + first, share_mass_.data() + first,
+      share_volume_.data() + first, share_offsets_[node + 1] - first };
   }
   double node_volume(std::size_t node) const { return node_volume_[node]; }
   /// Radiogenic heat production of the node's control volume [W].
@@ -78,23 +117,25 @@ public:
    * guess, most nodes converge on one enthalpy evaluation (bench/README.md); the result is
    * the same solve, only reached sooner. On single-rock nodes Newton stops as soon as
    * Taylor's bound on the error after its step (from the rock's curvature and capacity
-   * bounds, EnthalpyFit) is within the tolerance.
+   * bounds, EnthalpyFit) is within the tolerance. The slope is kept in single precision: it
+   * only places the first guess (whose error the Newton step squares), and the update pass
+   * streams it every step (bench/README.md, item 20).
    */
   double temperature_after_change(
-    std::size_t node, double E, double E_old, double T_old, double& inverse_capacity) const
+    std::size_t node, double E, double E_old, double T_old, float& inverse_capacity) const
   {
-    const double guess = T_old + (E - E_old) * inverse_capacity;
-    // Inline: one Newton step on a single-rock node, the path nearly every node takes.
-    if (share_offsets_[node + 1] - share_offsets_[node] == 1)
-    {
-      const NodeShare& share = shares_[share_offsets_[node]];
-      double T;
-      if (settled_newton_step(enthalpy_[share.rock], share.mass, E, guess, T, inverse_capacity))
-        return T;
-      if (std::isfinite(T)) // not settled (near a solidus or liquidus): iterate on from there
-        return solve_temperature(node, E, T, inverse_capacity);
-    }
-    return solve_temperature(node, E, std::isfinite(guess) ? guess : T_old, inverse_capacity);
+    const double guess = T_old + (E - E_old) * static_cast<double>(inverse_capacity);
+    double slope; // 1/(dE/dT) where the solve evaluated it last
+    double T = guess;
+    // Inline: one Newton step on a single-rock node, the path nearly every node takes. Not
+    // settled (near a solidus or liquidus, or several rocks): iterate on from there.
+    const std::uint32_t share = share_offsets_[node];
+    if (share_offsets_[node + 1] - share != 1 ||
+        !settled_newton_step(enthalpy_[share_rock_[share]], share_mass_[share], E, guess, T, slope))
+      T = solve_temperature(
+        node, E, std::isfinite(T) ? T : (std::isfinite(guess) ? guess : T_old), slope);
+    inverse_capacity = static_cast<float>(slope);
+    return T;
   }
 
   /**
@@ -104,7 +145,7 @@ public:
    * the one-node call's, bit for bit.
    */
   void temperatures_after_change(std::size_t first, std::size_t count, const double* E,
-    const double* E_old, double* T, double* inverse_capacity) const;
+    const double* E_old, double* T, float* inverse_capacity) const;
 
   /// Change the rock of the listed cells (an emplacement); node shares are rebuilt.
   void set_cell_rock(const std::vector<std::int64_t>& cells, int rock);
@@ -147,7 +188,10 @@ private:
   std::vector<EnthalpyFit> enthalpy_; ///< per rock
   std::vector<int> cell_rock_;
   std::vector<std::uint32_t> share_offsets_;
-  std::vector<NodeShare> shares_;
+  /// Node i's shares are entries [share_offsets_[i], share_offsets_[i+1]) of these three.
+  std::vector<std::uint8_t> share_rock_;
+  std::vector<double> share_mass_;
+  std::vector<double> share_volume_;
   std::vector<double> node_volume_;
   std::vector<double> node_source_;
 };
