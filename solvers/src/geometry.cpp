@@ -426,40 +426,66 @@ std::vector<double> compute_nodal_volumes(const Mesh& mesh)
   return nodal_volume;
 }
 
+namespace
+{
+// Adds cell c's ∫ ∇N_a·∇N_b dV to the n×n block K; false if a Jacobian determinant at the
+// stiffness quadrature points is not positive.
+bool add_stiffness(CellType type, const CellCoords& cc, double* K)
+{
+  const int n = cc.n;
+  const std::vector<QuadPoint>& rule = stiffness_quadrature(type);
+  const std::vector<ShapeValues>& shapes = shapes_at(type, Rule::Stiffness);
+  bool positive = true;
+  for (std::size_t k = 0; k < rule.size(); ++k)
+  {
+    const ShapeValues& s = shapes[k];
+    const Eigen::Matrix3d J = jacobian(cc, s);
+    const double det = J.determinant();
+    positive = positive && det > 0.0;
+    const double dV = rule[k].w * det;
+    const Eigen::Matrix3d Jinv_t = J.inverse().transpose();
+    std::array<Vec3, max_nodes> grad;
+    for (int a = 0; a < n; ++a)
+      grad[a] = Jinv_t * s.dN[a]; // ∇N = J^-T ∇_xi N
+    for (int a = 0; a < n; ++a)
+      for (int b = 0; b < n; ++b)
+        K[a * n + b] += grad[a].dot(grad[b]) * dV;
+  }
+  return positive;
+}
+} // namespace
+
 ElementMatrices compute_element_matrices(const Mesh& mesh)
 {
   require_positive_jacobians(mesh);
-  ElementMatrices em;
-  em.stiffness_offsets.reserve(mesh.n_cells() + 1);
-  em.stiffness_offsets.push_back(0);
+  ElementMatrices em = compute_element_stiffness(mesh);
   em.nodal_volume.assign(mesh.cell_nodes.size(), 0.0);
   em.cell_volume.assign(mesh.n_cells(), 0.0);
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+    em.cell_volume[c] = add_nodal_volumes(
+      mesh, c, coords(mesh, c), em.nodal_volume.data() + mesh.cell_offsets[c]);
+  return em;
+}
+
+ElementMatrices compute_element_stiffness(const Mesh& mesh)
+{
+  check_ids(mesh);
+  ElementMatrices em;
+  em.stiffness_offsets.assign(mesh.n_cells() + 1, 0);
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
   {
-    const CellType type = mesh.cell_types[c];
-    const CellCoords cc = coords(mesh, c);
-    const int n = cc.n;
-    const auto start = static_cast<std::size_t>(em.stiffness_offsets.back());
-    em.stiffness.resize(start + static_cast<std::size_t>(n * n), 0.0);
-    double* K = em.stiffness.data() + start;
-    em.cell_volume[c] = add_nodal_volumes(mesh, c, cc, em.nodal_volume.data() + mesh.cell_offsets[c]);
-    const std::vector<QuadPoint>& rule = stiffness_quadrature(type);
-    const std::vector<ShapeValues>& shapes = shapes_at(type, Rule::Stiffness);
-    for (std::size_t k = 0; k < rule.size(); ++k)
-    {
-      const ShapeValues& s = shapes[k];
-      const Eigen::Matrix3d J = jacobian(cc, s);
-      const double dV = rule[k].w * J.determinant();
-      const Eigen::Matrix3d Jinv_t = J.inverse().transpose();
-      std::array<Vec3, max_nodes> grad;
-      for (int a = 0; a < n; ++a)
-        grad[a] = Jinv_t * s.dN[a]; // ∇N = J^-T ∇_xi N
-      for (int a = 0; a < n; ++a)
-        for (int b = 0; b < n; ++b)
-          K[a * n + b] += grad[a].dot(grad[b]) * dV;
-    }
-    em.stiffness_offsets.push_back(static_cast<std::int64_t>(start + n * n));
+    const auto n = static_cast<std::int64_t>(mesh.nodes(c).size());
+    em.stiffness_offsets[c + 1] = em.stiffness_offsets[c] + n * n;
   }
+  em.stiffness.assign(static_cast<std::size_t>(em.stiffness_offsets.back()), 0.0);
+  std::vector<std::int64_t> bad;
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+    if (!add_stiffness(mesh.cell_types[c], coords(mesh, c),
+          em.stiffness.data() + em.stiffness_offsets[c]))
+      bad.push_back(static_cast<std::int64_t>(c));
+  if (!bad.empty())
+    throw MeshError(list_cells(bad) + (bad.size() == 1 ? " has" : " have") +
+      " a non-positive Jacobian determinant (inverted, degenerate or not in VTK node order)");
   return em;
 }
 

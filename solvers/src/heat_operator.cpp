@@ -171,7 +171,8 @@ void HeatOperator::build_edges()
   const Mesh& mesh = model.mesh();
   // Computed again rather than kept: the edge weights are all the operator needs of it, and
   // the full element matrices would be the largest array of the run (~500 B per node on hexes).
-  const ElementMatrices em = compute_element_matrices(mesh);
+  // The model has checked the mesh and computed the volumes: the stiffness alone.
+  const ElementMatrices em = compute_element_stiffness(mesh);
   const std::size_t n = model.n_nodes();
   if (model.rocks().size() > kMixedRock)
     throw std::invalid_argument("heat operator: at most " + std::to_string(kMixedRock) +

@@ -352,6 +352,29 @@ TEST(Geometry, NodalVolumesAloneEqualThoseOfTheElementMatrices)
   EXPECT_NE(msg.find("cell 3 has a non-positive Jacobian"), std::string::npos) << msg;
 }
 
+// The operator takes its edge weights from compute_element_stiffness (the model has checked
+// the mesh and has the volumes): the same stiffness blocks, bit for bit, on every cell type.
+TEST(Geometry, StiffnessAloneEqualsThatOfTheElementMatrices)
+{
+  Mesh box = make_box_hex({ 0, 0, 0 }, { 3, 2, 2 }, { 3, 2, 2 });
+  box.points[box.n_points() / 2][0] += 0.21; // a distorted interior node
+  for (const Mesh& m : { box, make_box_tet({ 0, 0, 0 }, { 2, 2, 1 }, { 2, 2, 1 }),
+         cube_of_wedges(0), cube_of_pyramids(0) })
+  {
+    const ElementMatrices alone = compute_element_stiffness(m);
+    const ElementMatrices em = compute_element_matrices(m);
+    EXPECT_EQ(alone.stiffness_offsets, em.stiffness_offsets);
+    ASSERT_EQ(alone.stiffness.size(), em.stiffness.size());
+    for (std::size_t k = 0; k < alone.stiffness.size(); ++k)
+      EXPECT_EQ(alone.stiffness[k], em.stiffness[k]) << "entry " << k;
+    EXPECT_TRUE(alone.nodal_volume.empty());
+  }
+  Mesh bad = make_box_hex({ 0, 0, 0 }, { 4, 1, 1 }, { 4, 1, 1 });
+  std::swap(bad.cell_nodes[bad.cell_offsets[3] + 1], bad.cell_nodes[bad.cell_offsets[3] + 2]);
+  const std::string msg = mesh_error([&] { compute_element_stiffness(bad); });
+  EXPECT_NE(msg.find("cell 3 has a non-positive Jacobian"), std::string::npos) << msg;
+}
+
 // ---------------------------------------------------------------------------------------------
 // Stiffness
 

@@ -34,6 +34,11 @@ ElementMatrices compute_element_matrices(const Mesh& mesh);
 /// ElementMatrices::nodal_volume alone (the same numbers), without the stiffness blocks: what
 /// the thermal model needs, at a fraction of the cost. Throws as compute_element_matrices.
 std::vector<double> compute_nodal_volumes(const Mesh& mesh);
+/// The stiffness blocks alone (the same numbers; nodal_volume and cell_volume left empty): what
+/// the heat operator needs of a mesh its thermal model has already checked. Checks only the
+/// Jacobians it evaluates (throws MeshError naming cells where one is not positive), not the
+/// corners as compute_element_matrices does.
+ElementMatrices compute_element_stiffness(const Mesh& mesh);
 
 /// Ids of cells whose Jacobian determinant is non-positive at any quadrature point or corner.
 std::vector<std::int64_t> cells_with_bad_jacobian(const Mesh& mesh);
