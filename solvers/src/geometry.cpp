@@ -399,8 +399,10 @@ void require_positive_jacobians(const Mesh& mesh)
       " a non-positive Jacobian determinant (inverted, degenerate or not in VTK node order)");
 }
 
-// Adds cell c's ∫ N_a dV to V[a] and returns its volume.
-double add_nodal_volumes(const Mesh& mesh, std::size_t c, const CellCoords& cc, double* V)
+// Adds cell c's ∫ N_a dV to V[a] and returns its volume; clears `positive` if a Jacobian
+// determinant at the volume quadrature points is not positive.
+double add_nodal_volumes(
+  const Mesh& mesh, std::size_t c, const CellCoords& cc, double* V, bool& positive)
 {
   double volume = 0.0;
   const std::vector<QuadPoint>& rule = quadrature(mesh.cell_types[c]);
@@ -408,21 +410,38 @@ double add_nodal_volumes(const Mesh& mesh, std::size_t c, const CellCoords& cc, 
   for (std::size_t k = 0; k < rule.size(); ++k)
   {
     const ShapeValues& s = shapes[k];
-    const double dV = rule[k].w * jacobian(cc, s).determinant();
+    const double det = jacobian(cc, s).determinant();
+    positive = positive && det > 0.0;
+    const double dV = rule[k].w * det;
     for (int a = 0; a < cc.n; ++a)
       V[a] += s.N[a] * dV;
     volume += dV;
   }
   return volume;
 }
+
+void throw_bad_jacobians(const std::vector<std::int64_t>& bad)
+{
+  throw MeshError(list_cells(bad) + (bad.size() == 1 ? " has" : " have") +
+    " a non-positive Jacobian determinant (inverted, degenerate or not in VTK node order)");
+}
 } // namespace
 
 std::vector<double> compute_nodal_volumes(const Mesh& mesh)
 {
-  require_positive_jacobians(mesh);
+  check_ids(mesh);
   std::vector<double> nodal_volume(mesh.cell_nodes.size(), 0.0);
+  std::vector<std::int64_t> bad;
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-    add_nodal_volumes(mesh, c, coords(mesh, c), nodal_volume.data() + mesh.cell_offsets[c]);
+  {
+    bool positive = true;
+    add_nodal_volumes(
+      mesh, c, coords(mesh, c), nodal_volume.data() + mesh.cell_offsets[c], positive);
+    if (!positive)
+      bad.push_back(static_cast<std::int64_t>(c));
+  }
+  if (!bad.empty())
+    throw_bad_jacobians(bad);
   return nodal_volume;
 }
 
@@ -461,9 +480,10 @@ ElementMatrices compute_element_matrices(const Mesh& mesh)
   ElementMatrices em = compute_element_stiffness(mesh);
   em.nodal_volume.assign(mesh.cell_nodes.size(), 0.0);
   em.cell_volume.assign(mesh.n_cells(), 0.0);
+  bool positive = true; // checked in full above
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
     em.cell_volume[c] = add_nodal_volumes(
-      mesh, c, coords(mesh, c), em.nodal_volume.data() + mesh.cell_offsets[c]);
+      mesh, c, coords(mesh, c), em.nodal_volume.data() + mesh.cell_offsets[c], positive);
   return em;
 }
 
@@ -484,8 +504,7 @@ ElementMatrices compute_element_stiffness(const Mesh& mesh)
           em.stiffness.data() + em.stiffness_offsets[c]))
       bad.push_back(static_cast<std::int64_t>(c));
   if (!bad.empty())
-    throw MeshError(list_cells(bad) + (bad.size() == 1 ? " has" : " have") +
-      " a non-positive Jacobian determinant (inverted, degenerate or not in VTK node order)");
+    throw_bad_jacobians(bad);
   return em;
 }
 

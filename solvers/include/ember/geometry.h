@@ -31,13 +31,14 @@ struct ElementMatrices
 
 /// Compute element matrices. Throws MeshError naming cells with a non-positive Jacobian.
 ElementMatrices compute_element_matrices(const Mesh& mesh);
-/// ElementMatrices::nodal_volume alone (the same numbers), without the stiffness blocks: what
-/// the thermal model needs, at a fraction of the cost. Throws as compute_element_matrices.
+/**
+ * The parts of compute_element_matrices (the same numbers) for a mesh that validate_mesh has
+ * checked: ElementMatrices::nodal_volume alone (what the thermal model needs), and the
+ * stiffness blocks alone (nodal_volume and cell_volume left empty: what the heat operator
+ * needs). Each guards only the Jacobians it evaluates — MeshError naming the cells where one
+ * is not positive — not every corner, as validate_mesh and compute_element_matrices do.
+ */
 std::vector<double> compute_nodal_volumes(const Mesh& mesh);
-/// The stiffness blocks alone (the same numbers; nodal_volume and cell_volume left empty): what
-/// the heat operator needs of a mesh its thermal model has already checked. Checks only the
-/// Jacobians it evaluates (throws MeshError naming cells where one is not positive), not the
-/// corners as compute_element_matrices does.
 ElementMatrices compute_element_stiffness(const Mesh& mesh);
 
 /// Ids of cells whose Jacobian determinant is non-positive at any quadrature point or corner.
