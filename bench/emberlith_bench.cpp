@@ -670,11 +670,15 @@ int main(int argc, char** argv)
       meshes = { std::strcmp(argv[++i], "tet") == 0 };
     else
     {
+      const bool has_value = i + 1 < argc &&
+        (std::strcmp(argv[i], "--section") == 0 || std::strcmp(argv[i], "--mesh") == 0);
+      std::fprintf(stderr, "%s: %s '%s'%s%s\n", argv[0],
+        has_value ? "unknown value" : "unknown or incomplete option",
+        has_value ? argv[i + 1] : argv[i], has_value ? " for " : "", has_value ? argv[i] : "");
       std::fprintf(stderr,
-        "%s: unknown or incomplete option '%s'\n"
         "usage: %s [--quick] [--section stream|step|csr|growth|memory|sill|profile]... "
         "[--mesh hex|tet]\n",
-        argv[0], argv[i], argv[0]);
+        argv[0]);
       return 2;
     }
   }

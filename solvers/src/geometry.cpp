@@ -390,13 +390,18 @@ std::vector<std::int64_t> cells_with_bad_jacobian(const Mesh& mesh)
 
 namespace
 {
+void throw_bad_jacobians(const std::vector<std::int64_t>& bad)
+{
+  throw MeshError(list_cells(bad) + (bad.size() == 1 ? " has" : " have") +
+    " a non-positive Jacobian determinant (inverted, degenerate or not in VTK node order)");
+}
+
 void require_positive_jacobians(const Mesh& mesh)
 {
   check_ids(mesh);
   const auto bad = cells_with_bad_jacobian(mesh);
   if (!bad.empty())
-    throw MeshError(list_cells(bad) + (bad.size() == 1 ? " has" : " have") +
-      " a non-positive Jacobian determinant (inverted, degenerate or not in VTK node order)");
+    throw_bad_jacobians(bad);
 }
 
 // Adds cell c's ∫ N_a dV to V[a] and returns its volume; clears `positive` if a Jacobian
@@ -418,12 +423,6 @@ double add_nodal_volumes(
     volume += dV;
   }
   return volume;
-}
-
-void throw_bad_jacobians(const std::vector<std::int64_t>& bad)
-{
-  throw MeshError(list_cells(bad) + (bad.size() == 1 ? " has" : " have") +
-    " a non-positive Jacobian determinant (inverted, degenerate or not in VTK node order)");
 }
 } // namespace
 

@@ -331,7 +331,7 @@ double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) con
       std::uint32_t k = start[i];
       const std::uint32_t end_i = start[i + 1];
       // Unrolled: fewer loop instructions per edge (the sweep runs out of instructions before
-      // bandwidth, bench/README.md item 20); the sums keep their order.
+      // bandwidth, bench/README.md item 21); the sums keep their order.
 #pragma GCC unroll 4
       for (const std::uint32_t single_end = kind[i] & kMixedEdges ? mixed_start[i] : end_i;
            k < single_end; ++k)
