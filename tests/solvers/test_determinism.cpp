@@ -75,10 +75,7 @@ TEST(Determinism, BitwiseIdenticalForOneTwoAndThreeThreads)
 // loops, so results do not depend on the machine's vector width either.
 TEST(Determinism, BitwiseIdenticalAtEverySimdLevel)
 {
-  struct RestoreBestLevel // also when an assertion ends the test early
-  {
-    ~RestoreBestLevel() { set_simd_level(best_simd_level()); }
-  } restore;
+  SimdLevelGuard guard; // also when an assertion ends the test early
   for (IntegratorKind kind : { IntegratorKind::ForwardEuler, IntegratorKind::RKL2 })
   {
     set_simd_level(SimdLevel::Scalar);

@@ -31,12 +31,6 @@ Rock basalt_with_latent()
   return r;
 }
 
-/// Restores the processor's best level when a test ends, pass or fail.
-struct LevelGuard
-{
-  ~LevelGuard() { set_simd_level(best_simd_level()); }
-};
-
 template <class Real>
 bool same_bits(Real a, Real b)
 {
@@ -46,7 +40,7 @@ bool same_bits(Real a, Real b)
 
 TEST(Simd, LevelsAreOrderedAndTheUnsupportedOnesRefused)
 {
-  LevelGuard guard;
+  SimdLevelGuard guard;
   const std::vector<SimdLevel> levels = supported_simd_levels();
   ASSERT_FALSE(levels.empty());
   EXPECT_EQ(levels.front(), SimdLevel::Scalar);
@@ -68,7 +62,7 @@ TEST(Simd, LevelsAreOrderedAndTheUnsupportedOnesRefused)
 // and liquidus (iterations), a stale inverse capacity of 0, and a NaN heat content.
 TEST(Simd, BlockTemperaturesEqualTheOneNodeSolveAtEveryLevel)
 {
-  LevelGuard guard;
+  SimdLevelGuard guard;
   // 96 cells in a row: rocks in runs of 5 to 17 cells, so rock contacts fall at every lane
   // and runs of one rock fill whole blocks of lanes at some offsets and not at others.
   const int cells = 96;

@@ -1,6 +1,7 @@
 // Shared helpers for the core tests: thin columns of 3-D cells standing in for 1-D problems.
 #pragma once
 
+#include "ember/simd.h"
 #include "ember/simulation.h"
 
 #include <cmath>
@@ -8,6 +9,13 @@
 
 namespace ember::testing
 {
+
+/// Restores the processor's best SIMD level when a test ends, pass or fail (tests that set
+/// levels must not leave a slower one behind for the next test).
+struct SimdLevelGuard
+{
+  ~SimdLevelGuard() { set_simd_level(best_simd_level()); }
+};
 
 /// Rock with constant properties; κ = k/(ρc).
 inline Rock simple_rock(const char* name, double k, double rho, double c)
