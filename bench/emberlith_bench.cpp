@@ -346,9 +346,10 @@ std::function<void()> spmv_function(const Csr& a, tbb::task_arena& arena)
 // writes once (compulsory traffic; a written array counts 16 B per double: write-allocate plus
 // write-back; the gathers along the edges are assumed to hit cache). Per pass:
 //   conductivity: T 8, node rock 1, (T, k) pair out 32;
-//   rate + stable step: edge start 4, (T, k) 16, source 8, inverse capacity (float) 4, node
-//     kind 1, rate out 16; per edge neighbour 4 + half-weight 8, and the mixed-edge start 4
-//     and the rock byte on the nodes and edges with a rock-contact end;
+//   rate + stable step: chunk start 1 (4 B per 4 nodes), (T, k) 16, source 8, inverse
+//     capacity (float) 4, node kind 1, rate out 16; per edge slot (padding included)
+//     neighbour 4 + half-weight 8, and the edge counts 4 and the rock byte on the nodes and
+//     edges with a rock-contact end;
 //   update + T(E): rate 8, E in/out 16, T in/out 16, last 1/capacity (float) in/out 8, share
 //     offset 4, per node share its rock 1 and mass 8.
 double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
@@ -357,8 +358,8 @@ double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
   double shares = 0;
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
-  const double rate = n * (8 + 1 + 32) + n * (4 + 16 + 8 + 4 + 1 + 16) +
-    op.edge_entries() * (4.0 + 8) + op.mixed_edge_entries() * 1.0 +
+  const double rate = n * (8 + 1 + 32) + n * (1 + 16 + 8 + 4 + 1 + 16) +
+    op.edge_slots() * (4.0 + 8) + op.mixed_edge_entries() * 1.0 +
     op.nodes_with_mixed_edges() * 4.0;
   const double update = n * (8 + 16 + 16 + 8 + 4) + shares * (1 + 8);
   return (rate + update) / n;
@@ -487,6 +488,8 @@ void section_step_and_csr(bool step, bool csr)
     const double bytes = step_bytes_per_node(*p.model, *p.op);
     figure("edges_per_node", double(p.op->edge_entries()) / p.mesh.n_points(), "1",
       "mesh=" + mesh_name);
+    figure("edge_slots_per_node", double(p.op->edge_slots()) / p.mesh.n_points(), "1",
+      "mesh=" + mesh_name + " layout=SELL-4");
     figure("step_bytes_per_node", bytes, "B", "mesh=" + mesh_name + " method=counted");
     figure("step_roofline",
            triad_two_threads / bytes,

@@ -1,5 +1,7 @@
 #include "ember/heat_operator.h"
 
+#include "heat_sweep.h"
+
 #include <oneapi/tbb/blocked_range.h>
 #include <oneapi/tbb/parallel_for.h>
 #include <oneapi/tbb/parallel_reduce.h>
@@ -185,11 +187,11 @@ void HeatOperator::build_edges()
     if (model.shares(i).size() == 1)
       node_rock_[i] = static_cast<std::uint8_t>(model.shares(i)[0].rock);
   node_tk_.assign(n, {});
-  edge_start_.assign(n + 1, 0);
-  edge_mixed_start_.assign(n, 0);
-  edge_node_.clear();
-  edge_weight_.clear();
-  edge_rock_.clear();
+  // Each node's row is built in CSR order first, then dealt into the chunk's slots.
+  std::vector<std::uint32_t> row_start(n + 1, 0), row_node;
+  std::vector<std::uint16_t> row_single(n, 0);
+  std::vector<double> row_weight;
+  std::vector<std::uint8_t> row_rock;
   struct Entry
   {
     std::int64_t node;
@@ -223,31 +225,75 @@ void HeatOperator::build_edges()
         return y.mixed;
       return x.node != y.node ? x.node < y.node : x.rock < y.rock;
     });
-    edge_mixed_start_[i] = static_cast<std::uint32_t>(edge_node_.size());
+    const std::size_t first = row_node.size();
     for (std::size_t k = 0; k < row.size(); ++k)
     {
       if (k > 0 && row[k].node == row[k - 1].node && row[k].rock == row[k - 1].rock)
       {
-        edge_weight_.back() += row[k].weight;
+        row_weight.back() += row[k].weight;
         continue;
       }
       if (!row[k].mixed)
-        edge_mixed_start_[i] = static_cast<std::uint32_t>(edge_node_.size() + 1);
-      edge_node_.push_back(static_cast<std::uint32_t>(row[k].node));
-      edge_rock_.push_back(static_cast<std::uint8_t>(row[k].rock));
-      edge_weight_.push_back(row[k].weight);
+        row_single[i] = static_cast<std::uint16_t>(row_node.size() + 1 - first);
+      row_node.push_back(static_cast<std::uint32_t>(row[k].node));
+      row_rock.push_back(static_cast<std::uint8_t>(row[k].rock));
+      row_weight.push_back(row[k].weight);
     }
-    if (edge_node_.size() > std::numeric_limits<std::uint32_t>::max())
-      throw std::invalid_argument("mesh too large for the heat operator: more than 2^32 - 1 "
-                                  "node-to-node couplings");
-    edge_start_[i + 1] = static_cast<std::uint32_t>(edge_node_.size());
+    if (row_node.size() - first > std::numeric_limits<std::uint16_t>::max())
+      throw std::invalid_argument("heat operator: node " + std::to_string(i) + " couples to " +
+        std::to_string(row_node.size() - first) + " neighbours (at most 65535; is the mesh "
+        "degenerate?)");
+    row_start[i + 1] = static_cast<std::uint32_t>(row_node.size());
     node_kind_[i] &= static_cast<std::uint8_t>(~(kSignedWeights | kMixedEdges));
-    for (std::uint32_t k = edge_start_[i]; k < edge_start_[i + 1]; ++k)
-      if (edge_weight_[k] < 0.0)
+    for (std::size_t k = first; k < row_node.size(); ++k)
+      if (row_weight[k] < 0.0)
         node_kind_[i] |= kSignedWeights;
-    if (edge_mixed_start_[i] != edge_start_[i + 1])
+    if (row_single[i] != row_node.size() - first)
       node_kind_[i] |= kMixedEdges;
   }
+  edge_entries_ = row_node.size();
+
+  // SELL-4: chunk c holds 4 × (its longest row) slots; padding points a node at itself.
+  constexpr std::size_t C = SlicedEdges::kChunk;
+  const std::size_t chunks = (n + C - 1) / C;
+  SlicedEdges& e = edges_;
+  e.start.assign(chunks + 1, 0);
+  e.count.resize(n);
+  e.single = std::move(row_single);
+  std::size_t slots = 0;
+  for (std::size_t c = 0; c < chunks; ++c)
+  {
+    std::size_t longest = 0;
+    for (std::size_t i = c * C; i < std::min(n, (c + 1) * C); ++i)
+    {
+      e.count[i] = static_cast<std::uint16_t>(row_start[i + 1] - row_start[i]);
+      longest = std::max<std::size_t>(longest, e.count[i]);
+    }
+    slots += C * longest;
+    if (slots > std::numeric_limits<std::uint32_t>::max())
+      throw std::invalid_argument("mesh too large for the heat operator: more than 2^32 - 1 "
+                                  "node-to-node coupling slots");
+    e.start[c + 1] = static_cast<std::uint32_t>(slots);
+  }
+  e.neighbour.assign(slots, 0);
+  e.half_weight.assign(slots, 0.0);
+  e.rock.assign(slots, 0);
+  for (std::size_t c = 0; c < chunks; ++c)
+    for (std::size_t l = 0; l < C; ++l)
+    {
+      const std::size_t i = c * C + l;
+      for (std::size_t k = e.start[c] + l; k < e.start[c + 1]; k += C)
+        e.neighbour[k] = static_cast<std::uint32_t>(std::min(i, n - 1));
+      if (i >= n)
+        continue;
+      for (std::size_t s = 0; s < e.count[i]; ++s)
+      {
+        const std::size_t k = e.slot(i, s), from = row_start[i] + s;
+        e.neighbour[k] = row_node[from];
+        e.half_weight[k] = row_weight[from];
+        e.rock[k] = row_rock[from];
+      }
+    }
 }
 
 void HeatOperator::refresh()
@@ -279,8 +325,8 @@ std::size_t HeatOperator::flux_index(std::size_t node) const
 std::size_t HeatOperator::mixed_edge_entries() const
 {
   std::size_t count = 0;
-  for (std::size_t i = 0; i < edge_mixed_start_.size(); ++i)
-    count += edge_start_[i + 1] - edge_mixed_start_[i];
+  for (std::size_t i = 0; i < edges_.count.size(); ++i)
+    count += edges_.count[i] - edges_.single[i];
   return count;
 }
 
@@ -293,77 +339,10 @@ std::size_t HeatOperator::nodes_with_mixed_edges() const
 double HeatOperator::bytes_per_node() const
 {
   const double n = static_cast<double>(model_->n_nodes());
-  const double edges = static_cast<double>(edge_node_.size());
-  return (edges * (4 + 8 + 1) + (n + 1) * 4) / n + 4 /* mixed start */ +
-    4 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ + 16 /* T, k */ +
-    static_cast<double>(flux_nodes_.size()) * (4 + 8) / n;
-}
-
-template <bool Bound, bool Rate>
-double HeatOperator::sweep(double* dEdt, std::size_t begin, std::size_t end) const
-{
-  const ThermalModel& model = *model_;
-  const std::uint32_t* start = edge_start_.data();
-  const std::uint32_t* mixed_start = edge_mixed_start_.data();
-  const std::uint8_t* kind = node_kind_.data();
-  const std::uint32_t* neighbour = edge_node_.data();
-  const double* half_weight = edge_weight_.data();
-  const NodeTK* tk = node_tk_.data();
-  double worst = 0.0;
-  // Flux-boundary nodes of this range, in the same ascending order: one search per range.
-  std::size_t next_flux = Bound ? flux_index(begin) : 0;
-  for (std::size_t i = begin; i != end; ++i)
-  {
-    const double Ti = tk[i].T;
-    double s = 0.0, g_sum = 0.0, g_abs = 0.0;
-    // Σ_j G_ij (T_j − T_i), and for the bound Σ G (and Σ|G| when Signed). Both ends single-rock:
-    // G = ½W (k_i + k_j) from the per-node conductivities, the same numbers conductance() would
-    // compute; the rest (rock contacts) evaluate k per rock.
-    const auto exchange_all = [&]<bool Signed>() {
-      const auto exchange = [&](double G, double Tj) {
-        s += G * (Tj - Ti);
-        if constexpr (Bound)
-          g_sum += G;
-        if constexpr (Signed)
-          g_abs += std::abs(G);
-      };
-      const double ki = tk[i].k;
-      std::uint32_t k = start[i];
-      const std::uint32_t end_i = start[i + 1];
-      // Unrolled: fewer loop instructions per edge (the sweep runs out of instructions before
-      // bandwidth, bench/README.md item 21); the sums keep their order.
-#pragma GCC unroll 4
-      for (const std::uint32_t single_end = kind[i] & kMixedEdges ? mixed_start[i] : end_i;
-           k < single_end; ++k)
-      {
-        const std::uint32_t j = neighbour[k];
-        exchange(half_weight[k] * (ki + tk[j].k), tk[j].T);
-      }
-      for (; k < end_i; ++k)
-      {
-        const double Tj = tk[neighbour[k]].T;
-        exchange(conductance(k, Ti, Tj), Tj);
-      }
-    };
-    // With no negative weight at the node (bricks, non-obtuse tetrahedra), Σ|G| = ΣG: the
-    // loop without |G| serves nearly every node.
-    const bool signed_weights = Bound && (kind[i] & kSignedWeights);
-    if (signed_weights)
-      exchange_all.template operator()<Bound>();
-    else
-      exchange_all.template operator()<false>();
-    if constexpr (Rate)
-      dEdt[i] = s + model.node_source(i);
-    if constexpr (Bound)
-    {
-      // |A_ii| + Σ_j |A_ij|
-      const double stiffness = signed_weights ? std::abs(g_sum) + g_abs : 2.0 * g_sum;
-      worst = std::max(worst, stiffness * inverse_capacity_[i]);
-      if (kind[i] & kFluxFace)
-        flux_stiffness_[next_flux++] = stiffness;
-    }
-  }
-  return worst;
+  const double slots = static_cast<double>(edge_slots());
+  return (slots * (4 + 8 + 1) + static_cast<double>(edges_.start.size()) * 4) / n +
+    2 /* count */ + 2 /* single */ + 4 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ +
+    16 /* T, k */ + static_cast<double>(flux_nodes_.size()) * (4 + 8) / n;
 }
 
 void HeatOperator::update_node_conductivity(
@@ -380,6 +359,7 @@ double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>
   const std::size_t n = model_->n_nodes();
   if constexpr (Rate)
     dEdt.resize(n);
+  const std::size_t chunks = edges_.start.size() - 1;
   // A max is exact under any partition, so the bound does not depend on the thread count.
   return arena.execute([&] {
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
@@ -387,9 +367,9 @@ double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>
         update_node_conductivity(T.data(), r.begin(), r.end());
       });
     return tbb::parallel_reduce(
-      tbb::blocked_range<std::size_t>(0, n, kGrain), 0.0,
+      tbb::blocked_range<std::size_t>(0, chunks, kGrain / SlicedEdges::kChunk), 0.0,
       [&](const tbb::blocked_range<std::size_t>& r, double w) {
-        return std::max(w, sweep<Bound, Rate>(dEdt.data(), r.begin(), r.end()));
+        return std::max(w, HeatSweep::run(*this, Bound, Rate, dEdt.data(), r.begin(), r.end()));
       },
       [](double a, double b) { return std::max(a, b); });
   });
@@ -491,9 +471,10 @@ std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
         continue;
       rhs[row] += model.node_source(i);
       double diagonal = 0.0;
-      for (std::uint32_t k = edge_start_[i]; k < edge_start_[i + 1]; ++k)
+      for (std::size_t e = 0; e < edges_.count[i]; ++e)
       {
-        const std::uint32_t j = edge_node_[k];
+        const std::size_t k = edges_.slot(i, e);
+        const std::uint32_t j = edges_.neighbour[k];
         const double G = conductance(k, T[i], T[j]);
         diagonal += G;
         if (unknown[j] >= 0)

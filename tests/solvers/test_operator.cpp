@@ -189,37 +189,24 @@ TEST(Operator, StableStepIsGershgorinBoundOfTheAssembledOperator)
   for (bool distorted : { false, true })
   {
     Mesh mesh = make_box_tet({ 0, 0, 0 }, { 4, 3, 3 }, { 4, 3, 3 });
-    if (distorted)
-      for (std::size_t i = 0; i < mesh.n_points(); ++i)
-      {
-        auto& p = mesh.points[i];
-        const bool interior = p[0] > 0 && p[0] < 4 && p[1] > 0 && p[1] < 3 && p[2] > 0 && p[2] < 3;
-        if (interior) // deterministic shifts of up to 0.3 cell
-          for (int d = 0; d < 3; ++d)
-            p[d] += 0.3 * std::sin(2.3 * static_cast<double>(i) + 1.1 * d);
-      }
+    if (distorted) // up to 0.3 cell
+      distort_interior(mesh, { 4, 3, 3 }, 0.3);
     const double c = 900.0;
     const ThermalModel model(mesh, { simple_rock("granite", 2.7, 2650, c) },
       std::vector<int>(mesh.n_cells(), 0));
     const HeatOperator op(model, {}); // insulated: no boundary stiffness, no held nodes
     tbb::task_arena arena(1);
     const std::size_t n = mesh.n_points();
-    std::vector<double> unit(n, 0.0), column;
     std::vector<double> row_abs_sum(n, 0.0);
-    PowerTally tally;
     int negative_weights = 0;
-    for (std::size_t j = 0; j < n; ++j)
-    {
-      unit[j] = 1.0;
-      op.rate(unit, column, tally, arena);
-      unit[j] = 0.0;
+    for_each_operator_column(op, n, arena, [&](std::size_t j, const std::vector<double>& column) {
       for (std::size_t i = 0; i < n; ++i)
       {
         row_abs_sum[i] += std::abs(column[i]);
         if (i != j && column[i] < -1e-12)
           ++negative_weights; // A_ij = G_ij < 0
       }
-    }
+    });
     if (distorted)
       ASSERT_GT(negative_weights, 0) << "the distortion should make some weights negative";
     else

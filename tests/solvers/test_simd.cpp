@@ -10,6 +10,7 @@
 #include <cstring>
 #include <limits>
 #include <random>
+#include <string>
 
 using namespace ember;
 using namespace ember::testing;
@@ -131,4 +132,81 @@ TEST(Simd, BlockTemperaturesEqualTheOneNodeSolveAtEveryLevel)
   for (std::size_t i = 0; i < n; ++i)
     contacts += model.shares(i).size() > 1;
   EXPECT_GT(contacts, 8u);
+}
+
+// The conduction sweep (heat_operator_sweep.cpp): rate, stable step and the ledger at every
+// level equal the scalar level's bits, on a mesh that exercises every path of it: distorted
+// tetrahedra (negative weights, rows of unequal length, so padded chunks), two rocks with
+// k(T) (rock-contact nodes), radiation, heat-flow and fixed-temperature boundaries, and a
+// node count that leaves the last chunk of 4 short.
+TEST(Simd, ConductionSweepEqualsTheScalarSweepAtEveryLevel)
+{
+  SimdLevelGuard guard;
+  Mesh mesh = make_box_tet({ 0, 0, 0 }, { 6, 6, 10 }, { 6, 6, 10 });
+  const std::size_t n = mesh.n_points();
+  ASSERT_NE(n % 4, 0u) << "the last chunk should be short";
+  distort_interior(mesh, { 6, 6, 10 }, 0.2); // some weights turn negative
+  mark_layer(mesh, 4, 6); // rock contacts at mid-height, single-rock chunks above and below
+  Rock host = waples_host();
+  host.conductivity.law = Conductivity::Law::VosteenSchellschmidt;
+  const ThermalModel model(mesh, { host, basalt_with_latent() }, mesh.cell_region);
+  const auto condition = [](BoundaryCondition::Kind kind, Side side, double value) {
+    BoundaryCondition bc;
+    bc.kind = kind;
+    bc.side = side;
+    bc.heat_flux = bc.temperature = value; // the one this kind reads
+    return bc;
+  };
+  const BoundaryCondition top = condition(BoundaryCondition::Kind::Radiation, Side::Top, 0),
+    base = condition(BoundaryCondition::Kind::HeatFlux, Side::Bottom, 0.08),
+    side = condition(BoundaryCondition::Kind::FixedTemperature, Side::Sides, 40);
+  const HeatOperator op(model, { top, base, side });
+  ASSERT_GT(op.mixed_edge_entries(), 0u);
+  ASSERT_GT(op.edge_slots(), op.edge_entries()) << "some chunks should be padded";
+  tbb::task_arena arena(2);
+  int negative = 0; // A_ij < 0: a negative weight
+  for_each_operator_column(op, n, arena, [&](std::size_t j, const std::vector<double>& column) {
+    for (std::size_t i = 0; i < n; ++i)
+      negative += i != j && column[i] < 0.0;
+  });
+  ASSERT_GT(negative, 0) << "the distortion should make some weights negative";
+
+  std::mt19937 random(777); // fixed seed
+  std::uniform_real_distribution<double> temperature(0.0, 1200.0);
+  std::vector<double> T(n);
+  for (double& t : T)
+    t = temperature(random);
+  struct Result
+  {
+    std::vector<double> rate, rate_bound;
+    double step, step_alone;
+    PowerTally tally;
+  };
+  const auto evaluate = [&] {
+    Result r;
+    op.rate(T, r.rate, r.tally, arena);
+    PowerTally unused;
+    r.step = op.rate_and_stable_step(T, r.rate_bound, unused, arena);
+    r.step_alone = op.stable_time_step(T, arena);
+    return r;
+  };
+  set_simd_level(SimdLevel::Scalar);
+  const Result reference = evaluate();
+  ASSERT_TRUE(std::isfinite(reference.step));
+  ASSERT_EQ(reference.step, reference.step_alone);
+  for (SimdLevel level : supported_simd_levels())
+  {
+    set_simd_level(level);
+    const Result r = evaluate();
+    const std::string name = simd_level_name(level);
+    for (std::size_t i = 0; i < n; ++i)
+    {
+      ASSERT_TRUE(same_bits(r.rate[i], reference.rate[i]))
+        << name << ": node " << i << " rate " << r.rate[i] << " vs " << reference.rate[i];
+      ASSERT_TRUE(same_bits(r.rate_bound[i], reference.rate[i])) << name << ": node " << i;
+    }
+    EXPECT_TRUE(same_bits(r.step, reference.step)) << name;
+    EXPECT_TRUE(same_bits(r.step_alone, reference.step)) << name;
+    EXPECT_TRUE(same_bits(r.tally.boundary, reference.tally.boundary)) << name;
+  }
 }

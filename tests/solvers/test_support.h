@@ -1,9 +1,11 @@
 // Shared helpers for the core tests: thin columns of 3-D cells standing in for 1-D problems.
 #pragma once
 
+#include "ember/heat_operator.h"
 #include "ember/simd.h"
 #include "ember/simulation.h"
 
+#include <array>
 #include <cmath>
 #include <vector>
 
@@ -79,6 +81,38 @@ inline std::vector<double> log_times(double t0, double t1, int n)
   for (int i = 0; i < n; ++i)
     t[i] = t0 * std::pow(t1 / t0, double(i) / (n - 1));
   return t;
+}
+
+/// Moves the nodes strictly inside the box [0, size] by up to `amplitude` cells, the same
+/// shifts every run: on tetrahedra some edge weights turn negative (obtuse cells).
+inline void distort_interior(Mesh& mesh, const std::array<double, 3>& size, double amplitude)
+{
+  for (std::size_t i = 0; i < mesh.n_points(); ++i)
+  {
+    auto& p = mesh.points[i];
+    bool interior = true;
+    for (int d = 0; d < 3; ++d)
+      interior = interior && p[d] > 0 && p[d] < size[d];
+    if (interior)
+      for (int d = 0; d < 3; ++d)
+        p[d] += amplitude * std::sin(2.3 * static_cast<double>(i) + 1.1 * d);
+  }
+}
+
+/// Calls column(j, A e_j) for every node j: the operator's columns, one rate() per node at
+/// the temperatures e_j (1 at node j, 0 elsewhere).
+template <class F>
+void for_each_operator_column(const HeatOperator& op, std::size_t n, tbb::task_arena& arena, F column)
+{
+  std::vector<double> unit(n, 0.0), rate;
+  PowerTally tally;
+  for (std::size_t j = 0; j < n; ++j)
+  {
+    unit[j] = 1.0;
+    op.rate(unit, rate, tally, arena);
+    unit[j] = 0.0;
+    column(j, rate);
+  }
 }
 
 } // namespace ember::testing

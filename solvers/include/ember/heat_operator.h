@@ -103,7 +103,9 @@ public:
   void refresh();
 
   /// Directed edge entries (node pairs sharing a cell, per rock) over all nodes.
-  std::size_t edge_entries() const { return edge_node_.size(); }
+  std::size_t edge_entries() const { return edge_entries_; }
+  /// Slots the edge storage holds: the entries plus padding to each chunk's longest row.
+  std::size_t edge_slots() const { return edges_.neighbour.size(); }
   /// Those of them with an end that is not a single-rock node of the edge's rock.
   std::size_t mixed_edge_entries() const;
   /// Nodes with such entries.
@@ -124,12 +126,11 @@ private:
     std::vector<NodeArea> nodes; ///< unique nodes, ascending
   };
 
-  // Conduction kernel over nodes [begin, end) at the temperatures in node_tk_: with Rate
-  // writes dEdt (sources included);
-  // with Bound returns the largest Gershgorin rate λ_i = Σ_b |A_ib| / C_i over the interior
-  // nodes and leaves Σ_b |A_ib| of flux-boundary nodes in flux_stiffness_ for the group pass.
-  template <bool Bound, bool Rate>
-  double sweep(double* dEdt, std::size_t begin, std::size_t end) const;
+  friend struct HeatSweep; // the conduction sweep (heat_operator_sweep.cpp)
+  /// The conduction sweep over all nodes at T (fills node_tk_ first): with Rate writes dEdt
+  /// (sources included); with Bound returns the largest Gershgorin rate
+  /// λ_i = Σ_b |A_ib| / C_i over the interior nodes and leaves Σ_b |A_ib| of flux-boundary
+  /// nodes in flux_stiffness_ for the group pass.
   template <bool Bound, bool Rate>
   double sweep_all(const std::vector<double>& T, std::vector<double>& dEdt,
     tbb::task_arena& arena) const;
@@ -145,7 +146,7 @@ private:
     kHeld = 1,          ///< fixed temperature
     kFluxFace = 2,      ///< on a radiation / convection / heat-flow boundary group
     kSignedWeights = 4, ///< has a negative edge weight (obtuse cells): Σ|G| ≠ ΣG
-    kMixedEdges = 8     ///< has edges with a rock-contact end (edge_mixed_start_ applies)
+    kMixedEdges = 8     ///< has edges with a rock-contact end (edges_.single applies)
   };
 
   const ThermalModel* model_;
@@ -157,16 +158,32 @@ private:
   /// and stays a bound), 4 B less for the sweep to stream.
   std::vector<float> inverse_capacity_;
   double source_total_ = 0.0;        ///< Σ radiogenic heat of the free nodes [W]
-  /// Node i's edges at [edge_start_[i], edge_start_[i+1]), sorted by (neighbour, rock): the
-  /// fixed summation order behind thread-count independence. Edges between two single-rock
-  /// nodes come first, up to edge_mixed_start_[i]: their ends' k are node_tk_ entries. The
-  /// sweep reads edge_mixed_start_[i] only at kMixedEdges nodes; at the others it is
-  /// edge_start_[i + 1].
-  std::vector<std::uint32_t> edge_start_;
-  std::vector<std::uint32_t> edge_mixed_start_;
-  std::vector<std::uint32_t> edge_node_;
-  std::vector<double> edge_weight_;      ///< ½ W^r_ij [m]
-  std::vector<std::uint8_t> edge_rock_;  ///< r
+  /**
+   * The edges in SELL-4 order (sliced ELLPACK with chunks of 4 nodes; Kreutzer et al. 2014,
+   * SIAM J. Sci. Comput. 36(5)): node i's s-th edge sits in slot
+   * start[i / 4] + 4 s + i % 4, so the sweep takes 4 consecutive nodes' s-th edges with one
+   * vector load. A chunk holds as many slots per node as its longest row; the padding
+   * points a node at itself with weight 0 and adds exactly nothing. Each node's edges are
+   * sorted by (neighbour, rock): the fixed summation order behind thread-count and
+   * vector-width independence. Edges between two single-rock nodes come first, up to
+   * single[i]; the others (rock contacts) are read only at kMixedEdges nodes.
+   */
+  struct SlicedEdges
+  {
+    static constexpr std::size_t kChunk = 4;
+    std::vector<std::uint32_t> start;     ///< first slot of each chunk, and the total
+    std::vector<std::uint16_t> count;     ///< edges of each node
+    std::vector<std::uint16_t> single;    ///< of them, those between single-rock ends
+    std::vector<std::uint32_t> neighbour; ///< j
+    std::vector<double> half_weight;      ///< ½ W^r_ij [m]
+    std::vector<std::uint8_t> rock;       ///< r
+    std::size_t slot(std::size_t node, std::size_t s) const
+    {
+      return start[node / kChunk] + kChunk * s + node % kChunk;
+    }
+  };
+  SlicedEdges edges_;
+  std::size_t edge_entries_ = 0;
   std::vector<ConductivityFit> fits_;    ///< per rock
   static constexpr std::uint8_t kMixedRock = 255;
   std::vector<std::uint8_t> node_rock_;  ///< the rock of single-rock nodes, else kMixedRock
@@ -182,11 +199,11 @@ private:
   std::size_t flux_index(std::size_t node) const;
   /// k of every single-rock node at T (the sweep's per-node conductivities).
   void update_node_conductivity(const double* T, std::size_t begin, std::size_t end) const;
-  /// G of edge entry k between nodes at Ti and Tj [W/K]: ½W × (k_rock(Ti) + k_rock(Tj)).
-  double conductance(std::uint32_t k, double Ti, double Tj) const
+  /// G of edge slot k between nodes at Ti and Tj [W/K]: ½W × (k_rock(Ti) + k_rock(Tj)).
+  double conductance(std::size_t k, double Ti, double Tj) const
   {
-    const ConductivityFit& fit = fits_[edge_rock_[k]];
-    return edge_weight_[k] * (fit(Ti) + fit(Tj));
+    const ConductivityFit& fit = fits_[edges_.rock[k]];
+    return edges_.half_weight[k] * (fit(Ti) + fit(Tj));
   }
 };
 

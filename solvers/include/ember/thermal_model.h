@@ -94,6 +94,7 @@ public:
   double node_volume(std::size_t node) const { return node_volume_[node]; }
   /// Radiogenic heat production of the node's control volume [W].
   double node_source(std::size_t node) const { return node_source_[node]; }
+  const std::vector<double>& node_sources() const { return node_source_; }
 
   /// Heat content E_i(T) [J] and its derivative dE_i/dT [J/K] (latent term included).
   double energy(std::size_t node, double T) const;

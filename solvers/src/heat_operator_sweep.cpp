@@ -1,0 +1,259 @@
+// HeatOperator's conduction sweep: Σ_j G_ij (T_j − T_i) per node, and the Gershgorin bound.
+// It is most of an explicit step's instructions (bench/README.md, item 21). With the edges in
+// SELL-4 order (HeatOperator::SlicedEdges) four consecutive nodes take their s-th edges as
+// one vector: the weights in one load, the neighbours' (T, k) pairs in four. Chunks with a
+// rock-contact node, or with a negative weight when the bound is asked for, go node by node
+// through the scalar code. Every level sums each node's edges in the same order with the
+// same operations (no FMA: simd.h), so all levels give the scalar level's bits.
+#include "heat_sweep.h"
+
+#include "ember/simd.h"
+#include "vector_lanes.h"
+
+#include <algorithm>
+#include <cmath>
+#include <cstring>
+
+
+namespace ember
+{
+namespace
+{
+using namespace lanes;
+
+// What the sweep reads and writes, as plain pointers.
+struct SweepView
+{
+  const std::uint32_t* chunk_start;
+  const std::uint16_t* count;
+  const std::uint16_t* single;
+  const std::uint32_t* neighbour;
+  const double* half_weight;
+  const std::uint8_t* rock;
+  const std::uint8_t* kind;
+  const double* tk; ///< node i's T at tk[2i], its k at tk[2i + 1]
+  const ConductivityFit* fits;
+  const double* source;
+  const float* inverse_capacity;
+  double* flux_stiffness;
+  std::size_t n;
+  std::uint8_t flux_face, signed_weights, mixed_edges; ///< HeatOperator::NodeKind bits
+};
+constexpr std::size_t kChunk = 4;
+
+/// Node i alone, in the order every level sums it in. Returns λ_i (0 without Bound).
+template <bool Bound, bool Rate>
+double scalar_node(const SweepView& v, std::size_t i, double* dEdt, std::size_t& next_flux)
+{
+  const double Ti = v.tk[2 * i], ki = v.tk[2 * i + 1];
+  const std::size_t first_slot = v.chunk_start[i / kChunk] + i % kChunk;
+  double s = 0.0, g_sum = 0.0, g_abs = 0.0;
+  // Σ_j G_ij (T_j − T_i), and for the bound Σ G (and Σ|G| when Signed). Both ends single-rock:
+  // G = ½W (k_i + k_j) from the per-node conductivities, the same numbers conductance() would
+  // compute; the rest (rock contacts) evaluate k per rock.
+  const auto exchange_all = [&]<bool Signed>() {
+    const auto exchange = [&](double G, double Tj) {
+      s += G * (Tj - Ti);
+      if constexpr (Bound)
+        g_sum += G;
+      if constexpr (Signed)
+        g_abs += std::abs(G);
+    };
+    const std::size_t end = v.count[i];
+    std::size_t e = 0;
+    for (const std::size_t single_end = v.kind[i] & v.mixed_edges ? v.single[i] : end;
+         e < single_end; ++e)
+    {
+      const std::size_t k = first_slot + kChunk * e;
+      const std::uint32_t j = v.neighbour[k];
+      exchange(v.half_weight[k] * (ki + v.tk[2 * j + 1]), v.tk[2 * j]);
+    }
+    for (; e < end; ++e)
+    {
+      const std::size_t k = first_slot + kChunk * e;
+      const double Tj = v.tk[2 * v.neighbour[k]];
+      const ConductivityFit& fit = v.fits[v.rock[k]];
+      exchange(v.half_weight[k] * (fit(Ti) + fit(Tj)), Tj);
+    }
+  };
+  // With no negative weight at the node (bricks, non-obtuse tetrahedra), Σ|G| = ΣG: the
+  // loop without |G| serves nearly every node.
+  const bool signed_weights = Bound && (v.kind[i] & v.signed_weights);
+  if (signed_weights)
+    exchange_all.template operator()<Bound>();
+  else
+    exchange_all.template operator()<false>();
+  if constexpr (Rate)
+    dEdt[i] = s + v.source[i];
+  if constexpr (!Bound)
+    return 0.0;
+  // |A_ii| + Σ_j |A_ij|
+  const double stiffness = signed_weights ? std::abs(g_sum) + g_abs : 2.0 * g_sum;
+  if (v.kind[i] & v.flux_face)
+    v.flux_stiffness[next_flux++] = stiffness;
+  return stiffness * v.inverse_capacity[i];
+}
+
+template <bool Bound, bool Rate>
+double scalar_range(const SweepView& v, double* dEdt, std::size_t chunk_begin,
+  std::size_t chunk_end, std::size_t next_flux)
+{
+  double worst = 0.0;
+  for (std::size_t i = chunk_begin * kChunk; i < std::min(chunk_end * kChunk, v.n); ++i)
+    worst = std::max(worst, scalar_node<Bound, Rate>(v, i, dEdt, next_flux));
+  return worst;
+}
+
+#if defined(__x86_64__) && defined(__GNUC__)
+// T and k of the nodes idx[0..W): one 16-byte load per (T, k) pair, then a transpose
+// (unpcklpd / unpckhpd, with AVX2 after vinsertf128).
+[[gnu::always_inline]] inline Lanes2 pair(const double* tk, std::uint32_t node)
+{
+  Lanes2 p;
+  std::memcpy(&p, tk + 2 * std::size_t{ node }, sizeof p);
+  return p;
+}
+[[gnu::always_inline]] inline void gather_tk(
+  const double* tk, const std::uint32_t* idx, Lanes2& T, Lanes2& k)
+{
+  const Lanes2 p0 = pair(tk, idx[0]), p1 = pair(tk, idx[1]);
+  T = __builtin_shufflevector(p0, p1, 0, 2);
+  k = __builtin_shufflevector(p0, p1, 1, 3);
+}
+[[gnu::always_inline]] inline void gather_tk(
+  const double* tk, const std::uint32_t* idx, Lanes4& T, Lanes4& k)
+{
+  const Lanes4 a = __builtin_shufflevector(pair(tk, idx[0]), pair(tk, idx[2]), 0, 1, 2, 3);
+  const Lanes4 b = __builtin_shufflevector(pair(tk, idx[1]), pair(tk, idx[3]), 0, 1, 2, 3);
+  T = __builtin_shufflevector(a, b, 0, 4, 2, 6); // {T0, T1, T2, T3}
+  k = __builtin_shufflevector(a, b, 1, 5, 3, 7);
+}
+
+/// The 4 nodes of chunk c, W at a time: scalar_node's sums lane by lane. The chunk's padding
+/// slots (weight 0, the node itself) add +0 to sums that start at +0, which leaves them as
+/// they are.
+template <class V, bool Bound, bool Rate>
+[[gnu::always_inline]] inline void vector_chunk(const SweepView& v, std::size_t c,
+  double* dEdt, V& worst, std::size_t& next_flux)
+{
+  constexpr std::size_t W = kWidth<V>;
+  const std::size_t first_slot = v.chunk_start[c];
+  const std::size_t slots = (v.chunk_start[c + 1] - first_slot) / kChunk;
+  for (std::size_t part = 0; part < kChunk; part += W)
+  {
+    const std::size_t i = c * kChunk + part;
+    std::uint32_t self[W];
+    for (std::size_t l = 0; l < W; ++l)
+      self[l] = static_cast<std::uint32_t>(i + l);
+    V Ti, ki, s, g;
+    gather_tk(v.tk, self, Ti, ki);
+    splat(s, 0.0);
+    splat(g, 0.0);
+    for (std::size_t e = 0; e < slots; ++e)
+    {
+      const std::size_t k = first_slot + kChunk * e + part;
+      V w, Tj, kj;
+      load(w, v.half_weight + k);
+      gather_tk(v.tk, v.neighbour + k, Tj, kj);
+      const V G = w * (ki + kj);
+      s = s + G * (Tj - Ti);
+      if constexpr (Bound)
+        g = g + G;
+    }
+    if constexpr (Rate)
+    {
+      V source;
+      load(source, v.source + i);
+      store(dEdt + i, s + source);
+    }
+    if constexpr (Bound)
+    {
+      const V stiffness = 2.0 * g;
+      V inverse_capacity;
+      load(inverse_capacity, v.inverse_capacity + i);
+      const V lambda = stiffness * inverse_capacity;
+      worst = worst < lambda ? lambda : worst; // std::max(worst, λ) lane by lane
+      for (std::size_t l = 0; l < W; ++l)
+        if (v.kind[i + l] & v.flux_face)
+          v.flux_stiffness[next_flux++] = stiffness[l];
+    }
+  }
+}
+
+template <class V, bool Bound, bool Rate>
+[[gnu::always_inline]] inline double vector_range(const SweepView& v, double* dEdt,
+  std::size_t chunk_begin, std::size_t chunk_end, std::size_t next_flux)
+{
+  // A chunk goes through the vector code when it is full and none of its nodes has
+  // rock-contact edges (nor, for the bound, a negative weight).
+  const std::uint8_t scalar_bits = Bound ? v.mixed_edges | v.signed_weights : v.mixed_edges;
+  const std::uint32_t scalar_mask = 0x01010101u * scalar_bits;
+  const std::size_t full_chunks = v.n / kChunk;
+  V worst_lanes;
+  splat(worst_lanes, 0.0);
+  double worst = 0.0;
+  for (std::size_t c = chunk_begin; c != chunk_end; ++c)
+  {
+    std::uint32_t kinds = scalar_mask;
+    if (c < full_chunks)
+      std::memcpy(&kinds, v.kind + c * kChunk, sizeof kinds);
+    if (!(kinds & scalar_mask))
+      vector_chunk<V, Bound, Rate>(v, c, dEdt, worst_lanes, next_flux);
+    else
+      for (std::size_t i = c * kChunk; i < std::min((c + 1) * kChunk, v.n); ++i)
+        worst = std::max(worst, scalar_node<Bound, Rate>(v, i, dEdt, next_flux));
+  }
+  for (std::size_t l = 0; l < kWidth<V>; ++l)
+    worst = std::max(worst, worst_lanes[l]);
+  return worst;
+}
+
+template <bool Bound, bool Rate>
+__attribute__((target("avx2"))) double avx2_range(const SweepView& v, double* dEdt,
+  std::size_t chunk_begin, std::size_t chunk_end, std::size_t next_flux)
+{
+  return vector_range<Lanes4, Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
+}
+#endif
+
+template <bool Bound, bool Rate>
+double level_range(const SweepView& v, double* dEdt, std::size_t chunk_begin,
+  std::size_t chunk_end, std::size_t next_flux)
+{
+  switch (simd_level())
+  {
+#if defined(__x86_64__) && defined(__GNUC__)
+    case SimdLevel::AVX2:
+      return avx2_range<Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
+    case SimdLevel::SSE2:
+      return vector_range<Lanes2, Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
+#endif
+    default:
+      return scalar_range<Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
+  }
+}
+} // namespace
+
+double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEdt,
+  std::size_t chunk_begin, std::size_t chunk_end)
+{
+  static_assert(sizeof(HeatOperator::NodeTK) == 2 * sizeof(double));
+  const HeatOperator::SlicedEdges& edges = op.edges_;
+  const SweepView v{ edges.start.data(), edges.count.data(), edges.single.data(),
+    edges.neighbour.data(), edges.half_weight.data(), edges.rock.data(), op.node_kind_.data(),
+    reinterpret_cast<const double*>(op.node_tk_.data()), op.fits_.data(),
+    op.model_->node_sources().data(), op.inverse_capacity_.data(), op.flux_stiffness_.data(),
+    op.model_->n_nodes(), HeatOperator::kFluxFace, HeatOperator::kSignedWeights,
+    HeatOperator::kMixedEdges };
+  // Flux-boundary nodes of this range, in the same ascending order: one search per range.
+  const std::size_t next_flux = bound ? op.flux_index(chunk_begin * kChunk) : 0;
+  if (bound && rate)
+    return level_range<true, true>(v, dEdt, chunk_begin, chunk_end, next_flux);
+  if (bound)
+    return level_range<true, false>(v, dEdt, chunk_begin, chunk_end, next_flux);
+  if (rate)
+    return level_range<false, true>(v, dEdt, chunk_begin, chunk_end, next_flux);
+  return 0.0;
+}
+
+} // namespace ember

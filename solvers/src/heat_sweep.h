@@ -1,0 +1,19 @@
+// The conduction sweep of HeatOperator over a range of node chunks, at the best vector level
+// (heat_operator_sweep.cpp). Internal to the core.
+#pragma once
+
+#include "ember/heat_operator.h"
+
+namespace ember
+{
+
+struct HeatSweep
+{
+  /// Nodes of chunks [chunk_begin, chunk_end) (4 nodes each; the last may be short): with
+  /// rate, dEdt of each node (sources included); with bound, the largest Gershgorin rate of
+  /// the range's nodes, and Σ_b |A_ib| of its flux-boundary nodes in op.flux_stiffness_.
+  static double run(const HeatOperator& op, bool bound, bool rate, double* dEdt,
+    std::size_t chunk_begin, std::size_t chunk_end);
+};
+
+} // namespace ember
