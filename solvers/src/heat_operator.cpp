@@ -345,13 +345,6 @@ double HeatOperator::bytes_per_node() const
     16 /* T, k */ + static_cast<double>(flux_nodes_.size()) * (4 + 8) / n;
 }
 
-void HeatOperator::update_node_conductivity(
-  const double* T, std::size_t begin, std::size_t end) const
-{
-  for (std::size_t i = begin; i != end; ++i)
-    node_tk_[i] = { T[i], node_rock_[i] != kMixedRock ? fits_[node_rock_[i]](T[i]) : 0.0 };
-}
-
 template <bool Bound, bool Rate>
 double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>& dEdt,
   tbb::task_arena& arena) const
@@ -364,7 +357,7 @@ double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>
   return arena.execute([&] {
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
       [&](const tbb::blocked_range<std::size_t>& r) {
-        update_node_conductivity(T.data(), r.begin(), r.end());
+        HeatSweep::pairs(*this, T.data(), r.begin(), r.end());
       });
     return tbb::parallel_reduce(
       tbb::blocked_range<std::size_t>(0, chunks, kGrain / SlicedEdges::kChunk), 0.0,

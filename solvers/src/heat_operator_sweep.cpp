@@ -232,6 +232,88 @@ double level_range(const SweepView& v, double* dEdt, std::size_t chunk_begin,
       return scalar_range<Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
   }
 }
+// ---- The (T, k) pairs the sweep gathers, written at the start of each rate call ----------
+
+struct PairView
+{
+  const double* T;
+  const std::uint8_t* node_rock; ///< HeatOperator::kMixedRock at rock contacts
+  const ConductivityFit* fits;
+  double* tk;
+  std::uint8_t mixed_rock;
+};
+
+void scalar_pairs(const PairView& v, std::size_t begin, std::size_t end)
+{
+  for (std::size_t i = begin; i != end; ++i)
+  {
+    v.tk[2 * i] = v.T[i];
+    v.tk[2 * i + 1] = v.node_rock[i] != v.mixed_rock ? v.fits[v.node_rock[i]](v.T[i]) : 0.0;
+  }
+}
+
+#if defined(__x86_64__) && defined(__GNUC__)
+/// ConductivityFit::operator() for W temperatures, operation for operation.
+template <class V>
+[[gnu::always_inline]] inline void conductivity(const ConductivityFit& fit, const V& T, V& k)
+{
+  V k_floor;
+  splat(k_floor, fit.k_floor);
+  if (fit.q == 0.0) // constant k: no division
+  {
+    splat(k, fit.p > fit.k_floor ? fit.p : fit.k_floor);
+    return;
+  }
+  V lowest;
+  splat(lowest, -100.0);
+  const V d = fit.r + fit.s * (T > lowest ? T : lowest);
+  const V k_law = fit.p + fit.q / d;
+  k = d > 0.0 ? (k_law > k_floor ? k_law : k_floor) : k_floor;
+}
+
+/// W consecutive nodes of one rock at a time (a rock byte compare per block), the pairs
+/// interleaved in registers and stored whole; other blocks node by node.
+template <class V>
+[[gnu::always_inline]] inline void vector_pairs(const PairView& v, std::size_t begin,
+  std::size_t end)
+{
+  constexpr std::size_t W = kWidth<V>;
+  std::size_t i = begin;
+  for (; i + W <= end; i += W)
+  {
+    const std::uint8_t rock = v.node_rock[i];
+    bool one_rock = rock != v.mixed_rock;
+    for (std::size_t l = 1; l < W; ++l)
+      one_rock = one_rock && v.node_rock[i + l] == rock;
+    if (!one_rock)
+    {
+      scalar_pairs(v, i, i + W);
+      continue;
+    }
+    V T;
+    load(T, v.T + i);
+    V k;
+    conductivity(v.fits[rock], T, k);
+    if constexpr (W == 4)
+    {
+      store(v.tk + 2 * i, V(__builtin_shufflevector(T, k, 0, 4, 1, 5)));
+      store(v.tk + 2 * i + 4, V(__builtin_shufflevector(T, k, 2, 6, 3, 7)));
+    }
+    else
+    {
+      store(v.tk + 2 * i, V(__builtin_shufflevector(T, k, 0, 2)));
+      store(v.tk + 2 * i + 2, V(__builtin_shufflevector(T, k, 1, 3)));
+    }
+  }
+  scalar_pairs(v, i, end);
+}
+
+__attribute__((target("avx2"))) void avx2_pairs(const PairView& v, std::size_t begin,
+  std::size_t end)
+{
+  vector_pairs<Lanes4>(v, begin, end);
+}
+#endif
 } // namespace
 
 double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEdt,
@@ -254,6 +336,23 @@ double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEd
   if (rate)
     return level_range<false, true>(v, dEdt, chunk_begin, chunk_end, next_flux);
   return 0.0;
+}
+
+void HeatSweep::pairs(const HeatOperator& op, const double* T, std::size_t begin, std::size_t end)
+{
+  const PairView v{ T, op.node_rock_.data(), op.fits_.data(),
+    reinterpret_cast<double*>(op.node_tk_.data()), HeatOperator::kMixedRock };
+  switch (simd_level())
+  {
+#if defined(__x86_64__) && defined(__GNUC__)
+    case SimdLevel::AVX2:
+      return avx2_pairs(v, begin, end);
+    case SimdLevel::SSE2:
+      return vector_pairs<Lanes2>(v, begin, end);
+#endif
+    default:
+      return scalar_pairs(v, begin, end);
+  }
 }
 
 } // namespace ember

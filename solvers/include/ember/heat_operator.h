@@ -197,8 +197,6 @@ private:
   std::vector<std::uint32_t> flux_nodes_;      ///< nodes on flux-boundary groups, ascending
   mutable std::vector<double> flux_stiffness_; ///< their Σ_b |A_ib| [W/K], same order
   std::size_t flux_index(std::size_t node) const;
-  /// k of every single-rock node at T (the sweep's per-node conductivities).
-  void update_node_conductivity(const double* T, std::size_t begin, std::size_t end) const;
   /// G of edge slot k between nodes at Ti and Tj [W/K]: ½W × (k_rock(Ti) + k_rock(Tj)).
   double conductance(std::size_t k, double Ti, double Tj) const
   {
