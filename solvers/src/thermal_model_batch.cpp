@@ -33,26 +33,16 @@ template <class V>
   for (; k + W <= count; k += W)
   {
     const std::size_t node = first + k;
-    // W nodes with one share each, all of one rock
-    V m;
-    int rock = -1;
-    bool one_rock = true;
-    for (std::size_t l = 0; one_rock && l < W; ++l)
-    {
-      const NodeShares node_shares = model.shares(node + l);
-      one_rock = node_shares.size() == 1 && (l == 0 || node_shares[0].rock == rock);
-      if (one_rock)
-      {
-        rock = node_shares[0].rock;
-        m[l] = node_shares[0].mass;
-      }
-    }
-    if (!one_rock)
+    int rock;
+    const double* masses;
+    if (!model.one_rock_run(node, W, rock, masses))
     {
       for (std::size_t l = 0; l < W; ++l)
         scalar(k + l);
       continue;
     }
+    V m;
+    load(m, masses);
     const EnthalpyFit& fit = fits[rock];
     V e, e_old, t_old, ic;
     load(e, E + k);

@@ -140,6 +140,26 @@ public:
   }
 
   /**
+   * Whether nodes node … node + count − 1 have one share each, all of one rock; if so, that
+   * rock and their masses (side by side in the share arrays: one share per node). The vector
+   * T(E) asks it for every block of lanes.
+   */
+  bool one_rock_run(std::size_t node, std::size_t count, int& rock, const double*& mass) const
+  {
+    const std::uint32_t first = share_offsets_[node];
+    bool one = share_offsets_[node + count] - first == count;
+    for (std::size_t l = 1; l < count; ++l) // with the total: one share per node
+      one = one && share_offsets_[node + l] == first + l;
+    if (!one)
+      return false;
+    for (std::size_t l = 1; l < count; ++l)
+      one = one && share_rock_[first + l] == share_rock_[first];
+    rock = share_rock_[first];
+    mass = share_mass_.data() + first;
+    return one;
+  }
+
+  /**
    * temperature_after_change() for nodes first … first + count − 1 at once: E, E_old, T (in:
    * T_old, out: T) and inverse_capacity point at the block's first node. Runs of single-rock
    * nodes of one rock take the Newton step several nodes at a time (simd.h); the results are
