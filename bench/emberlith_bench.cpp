@@ -346,10 +346,10 @@ std::function<void()> spmv_function(const Csr& a, tbb::task_arena& arena)
 // writes once (compulsory traffic; a written array counts 16 B per double: write-allocate plus
 // write-back; the gathers along the edges are assumed to hit cache). Per pass:
 //   conductivity: T 8, node rock 1, (T, k) pair out 32;
+//   contact pairs: per (contact node, rock) node 4, rock 1, T 8, pair out 32;
 //   rate + stable step: chunk start 1 (4 B per 4 nodes), (T, k) 16, source 8, inverse
 //     capacity (float) 4, node kind 1, rate out 16; per edge slot (padding included)
-//     neighbour 4 + half-weight 8, and the edge counts 4 and the rock byte on the nodes and
-//     edges with a rock-contact end;
+//     neighbour 4 + half-weight 8; at contact nodes the edge count 2 and a rock byte per edge;
 //   update + T(E): rate 8, E in/out 16, T in/out 16, last 1/capacity (float) in/out 8, share
 //     offset 4, per node share its rock 1 and mass 8.
 double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
@@ -358,9 +358,9 @@ double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
   double shares = 0;
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
-  const double rate = n * (8 + 1 + 32) + n * (1 + 16 + 8 + 4 + 1 + 16) +
-    op.edge_slots() * (4.0 + 8) + op.mixed_edge_entries() * 1.0 +
-    op.nodes_with_mixed_edges() * 4.0;
+  const double rate = n * (8 + 1 + 32) + op.contact_pairs() * (4.0 + 1 + 8 + 32) +
+    n * (1 + 16 + 8 + 4 + 1 + 16) + op.edge_slots() * (4.0 + 8) +
+    op.contact_edge_entries() * 1.0 + op.contact_nodes() * 2.0;
   const double update = n * (8 + 16 + 16 + 8 + 4) + shares * (1 + 8);
   return (rate + update) / n;
 }

@@ -186,10 +186,35 @@ void HeatOperator::build_edges()
   for (std::size_t i = 0; i < n; ++i)
     if (model.shares(i).size() == 1)
       node_rock_[i] = static_cast<std::uint8_t>(model.shares(i)[0].rock);
-  node_tk_.assign(n, {});
+  // One (T, k) pair per (contact node, rock), after the nodes' own pairs.
+  contact_pair_node_.clear();
+  contact_pair_rock_.clear();
+  std::vector<std::uint32_t> first_contact_pair(n, 0);
+  for (std::size_t i = 0; i < n; ++i)
+    if (node_rock_[i] == kMixedRock)
+    {
+      first_contact_pair[i] = static_cast<std::uint32_t>(n + contact_pair_node_.size());
+      for (const NodeShare& share : model.shares(i))
+      {
+        contact_pair_node_.push_back(static_cast<std::uint32_t>(i));
+        contact_pair_rock_.push_back(static_cast<std::uint8_t>(share.rock));
+      }
+    }
+  if (n + contact_pair_node_.size() > std::numeric_limits<std::uint32_t>::max())
+    throw std::invalid_argument("mesh too large for the heat operator: more than 2^32 - 1 "
+                                "(node, rock) temperature pairs");
+  node_tk_.assign(n + contact_pair_node_.size(), {});
+  // The pair an edge of rock r gathers for its far end j.
+  const auto far_pair = [&](std::int64_t j, int rock) {
+    if (node_rock_[j] != kMixedRock)
+      return static_cast<std::uint32_t>(j);
+    std::uint32_t p = first_contact_pair[j];
+    while (contact_pair_rock_[p - n] != rock)
+      ++p;
+    return p;
+  };
   // Each node's row is built in CSR order first, then dealt into the chunk's slots.
   std::vector<std::uint32_t> row_start(n + 1, 0), row_node;
-  std::vector<std::uint16_t> row_single(n, 0);
   std::vector<double> row_weight;
   std::vector<std::uint8_t> row_rock;
   struct Entry
@@ -197,14 +222,14 @@ void HeatOperator::build_edges()
     std::int64_t node;
     int rock;
     double weight;
-    bool mixed; ///< an end is not a single-rock node of this rock
   };
   std::vector<Entry> row;
   const NodeCells cells(mesh);
   for (std::size_t i = 0; i < n; ++i)
   {
-    // Cells in ascending order, then a stable sort: the weights of one (j, rock) pair are
-    // summed in ascending cell order from either end, so W_ij = W_ji exactly.
+    // Cells in ascending order, then a stable sort by (rock, neighbour): the weights of one
+    // (j, rock) pair are summed in ascending cell order from either end, so W_ij = W_ji
+    // exactly.
     row.clear();
     for (const CellSlot& slot : cells.of(i))
     {
@@ -214,16 +239,10 @@ void HeatOperator::build_edges()
         em.stiffness.data() + em.stiffness_offsets[slot.cell] + slot.local * m;
       for (std::size_t b = 0; b < m; ++b)
         if (b != slot.local && K[b] != 0.0)
-        {
-          const int rock = model.cell_rock()[slot.cell];
-          const bool mixed = node_rock_[i] != rock || node_rock_[nodes[b]] != rock;
-          row.push_back({ nodes[b], rock, -0.5 * K[b], mixed });
-        }
+          row.push_back({ nodes[b], model.cell_rock()[slot.cell], -0.5 * K[b] });
     }
     std::stable_sort(row.begin(), row.end(), [](const Entry& x, const Entry& y) {
-      if (x.mixed != y.mixed)
-        return y.mixed;
-      return x.node != y.node ? x.node < y.node : x.rock < y.rock;
+      return x.rock != y.rock ? x.rock < y.rock : x.node < y.node;
     });
     const std::size_t first = row_node.size();
     for (std::size_t k = 0; k < row.size(); ++k)
@@ -233,9 +252,7 @@ void HeatOperator::build_edges()
         row_weight.back() += row[k].weight;
         continue;
       }
-      if (!row[k].mixed)
-        row_single[i] = static_cast<std::uint16_t>(row_node.size() + 1 - first);
-      row_node.push_back(static_cast<std::uint32_t>(row[k].node));
+      row_node.push_back(far_pair(row[k].node, row[k].rock));
       row_rock.push_back(static_cast<std::uint8_t>(row[k].rock));
       row_weight.push_back(row[k].weight);
     }
@@ -244,12 +261,12 @@ void HeatOperator::build_edges()
         std::to_string(row_node.size() - first) + " neighbours (at most 65535; is the mesh "
         "degenerate?)");
     row_start[i + 1] = static_cast<std::uint32_t>(row_node.size());
-    node_kind_[i] &= static_cast<std::uint8_t>(~(kSignedWeights | kMixedEdges));
+    node_kind_[i] &= static_cast<std::uint8_t>(~(kSignedWeights | kContact));
     for (std::size_t k = first; k < row_node.size(); ++k)
       if (row_weight[k] < 0.0)
         node_kind_[i] |= kSignedWeights;
-    if (row_single[i] != row_node.size() - first)
-      node_kind_[i] |= kMixedEdges;
+    if (node_rock_[i] == kMixedRock && row_node.size() > first)
+      node_kind_[i] |= kContact;
   }
   edge_entries_ = row_node.size();
 
@@ -259,7 +276,6 @@ void HeatOperator::build_edges()
   SlicedEdges& e = edges_;
   e.start.assign(chunks + 1, 0);
   e.count.resize(n);
-  e.single = std::move(row_single);
   std::size_t slots = 0;
   for (std::size_t c = 0; c < chunks; ++c)
   {
@@ -322,27 +338,29 @@ std::size_t HeatOperator::flux_index(std::size_t node) const
     flux_nodes_.begin());
 }
 
-std::size_t HeatOperator::mixed_edge_entries() const
+std::size_t HeatOperator::contact_nodes() const
+{
+  return static_cast<std::size_t>(std::count_if(node_kind_.begin(), node_kind_.end(),
+    [](std::uint8_t kind) { return (kind & kContact) != 0; }));
+}
+
+std::size_t HeatOperator::contact_edge_entries() const
 {
   std::size_t count = 0;
   for (std::size_t i = 0; i < edges_.count.size(); ++i)
-    count += edges_.count[i] - edges_.single[i];
+    if (node_kind_[i] & kContact)
+      count += edges_.count[i];
   return count;
-}
-
-std::size_t HeatOperator::nodes_with_mixed_edges() const
-{
-  return static_cast<std::size_t>(std::count_if(node_kind_.begin(), node_kind_.end(),
-    [](std::uint8_t kind) { return (kind & kMixedEdges) != 0; }));
 }
 
 double HeatOperator::bytes_per_node() const
 {
   const double n = static_cast<double>(model_->n_nodes());
   const double slots = static_cast<double>(edge_slots());
-  return (slots * (4 + 8 + 1) + static_cast<double>(edges_.start.size()) * 4) / n +
-    2 /* count */ + 2 /* single */ + 4 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ +
-    16 /* T, k */ + static_cast<double>(flux_nodes_.size()) * (4 + 8) / n;
+  const double contact_pairs = static_cast<double>(contact_pair_node_.size());
+  return (slots * (4 + 8 + 1) + static_cast<double>(edges_.start.size()) * 4 +
+           contact_pairs * (16 + 4 + 1) + static_cast<double>(flux_nodes_.size()) * (4 + 8)) / n +
+    2 /* count */ + 4 /* inverse capacity */ + 1 /* kind */ + 1 /* rock */ + 16 /* T, k */;
 }
 
 template <bool Bound, bool Rate>
@@ -358,6 +376,10 @@ double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>
     tbb::parallel_for(tbb::blocked_range<std::size_t>(0, n, kGrain),
       [&](const tbb::blocked_range<std::size_t>& r) {
         HeatSweep::pairs(*this, T.data(), r.begin(), r.end());
+      });
+    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, contact_pairs(), kGrain),
+      [&](const tbb::blocked_range<std::size_t>& r) {
+        HeatSweep::contact_pairs(*this, T.data(), r.begin(), r.end());
       });
     return tbb::parallel_reduce(
       tbb::blocked_range<std::size_t>(0, chunks, kGrain / SlicedEdges::kChunk), 0.0,
@@ -467,7 +489,7 @@ std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
       for (std::size_t e = 0; e < edges_.count[i]; ++e)
       {
         const std::size_t k = edges_.slot(i, e);
-        const std::uint32_t j = edges_.neighbour[k];
+        const std::size_t j = pair_node(edges_.neighbour[k]);
         const double G = conductance(k, T[i], T[j]);
         diagonal += G;
         if (unknown[j] >= 0)

@@ -1,7 +1,7 @@
 // HeatOperator's conduction sweep: Σ_j G_ij (T_j − T_i) per node, and the Gershgorin bound.
 // It is most of an explicit step's instructions (bench/README.md, item 21). With the edges in
 // SELL-4 order (HeatOperator::SlicedEdges) four consecutive nodes take their s-th edges as
-// one vector: the weights in one load, the neighbours' (T, k) pairs in four. Chunks with a
+// one vector: the weights in one load, the far ends' (T, k) pairs in four. Chunks with a
 // rock-contact node, or with a negative weight when the bound is asked for, go node by node
 // through the scalar code. Every level sums each node's edges in the same order with the
 // same operations (no FMA: simd.h), so all levels give the scalar level's bits.
@@ -26,18 +26,17 @@ struct SweepView
 {
   const std::uint32_t* chunk_start;
   const std::uint16_t* count;
-  const std::uint16_t* single;
   const std::uint32_t* neighbour;
   const double* half_weight;
   const std::uint8_t* rock;
   const std::uint8_t* kind;
-  const double* tk; ///< node i's T at tk[2i], its k at tk[2i + 1]
+  const double* tk; ///< pair p's T at tk[2p], its k at tk[2p + 1]; node i's pair is p = i
   const ConductivityFit* fits;
   const double* source;
   const float* inverse_capacity;
   double* flux_stiffness;
   std::size_t n;
-  std::uint8_t flux_face, signed_weights, mixed_edges; ///< HeatOperator::NodeKind bits
+  std::uint8_t flux_face, signed_weights, contact; ///< HeatOperator::NodeKind bits
 };
 constexpr std::size_t kChunk = 4;
 
@@ -48,32 +47,28 @@ double scalar_node(const SweepView& v, std::size_t i, double* dEdt, std::size_t&
   const double Ti = v.tk[2 * i], ki = v.tk[2 * i + 1];
   const std::size_t first_slot = v.chunk_start[i / kChunk] + i % kChunk;
   double s = 0.0, g_sum = 0.0, g_abs = 0.0;
-  // Σ_j G_ij (T_j − T_i), and for the bound Σ G (and Σ|G| when Signed). Both ends single-rock:
-  // G = ½W (k_i + k_j) from the per-node conductivities, the same numbers conductance() would
-  // compute; the rest (rock contacts) evaluate k per rock.
+  // Σ_j G_ij (T_j − T_i), and for the bound Σ G (and Σ|G| when Signed), with
+  // G = ½W (k_r(T_i) + k_r(T_j)): the far end's k_r from its pair; the near end's from the
+  // node's own pair, or at a contact node evaluated once per rock (its edges come by rock).
+  const bool contact = v.kind[i] & v.contact;
   const auto exchange_all = [&]<bool Signed>() {
-    const auto exchange = [&](double G, double Tj) {
-      s += G * (Tj - Ti);
+    double k_near = ki;
+    int near_rock = -1;
+    for (std::size_t e = 0; e < v.count[i]; ++e)
+    {
+      const std::size_t k = first_slot + kChunk * e;
+      if (contact && v.rock[k] != near_rock)
+      {
+        near_rock = v.rock[k];
+        k_near = v.fits[near_rock](Ti);
+      }
+      const std::uint32_t p = v.neighbour[k];
+      const double G = v.half_weight[k] * (k_near + v.tk[2 * p + 1]);
+      s += G * (v.tk[2 * p] - Ti);
       if constexpr (Bound)
         g_sum += G;
       if constexpr (Signed)
         g_abs += std::abs(G);
-    };
-    const std::size_t end = v.count[i];
-    std::size_t e = 0;
-    for (const std::size_t single_end = v.kind[i] & v.mixed_edges ? v.single[i] : end;
-         e < single_end; ++e)
-    {
-      const std::size_t k = first_slot + kChunk * e;
-      const std::uint32_t j = v.neighbour[k];
-      exchange(v.half_weight[k] * (ki + v.tk[2 * j + 1]), v.tk[2 * j]);
-    }
-    for (; e < end; ++e)
-    {
-      const std::size_t k = first_slot + kChunk * e;
-      const double Tj = v.tk[2 * v.neighbour[k]];
-      const ConductivityFit& fit = v.fits[v.rock[k]];
-      exchange(v.half_weight[k] * (fit(Ti) + fit(Tj)), Tj);
     }
   };
   // With no negative weight at the node (bricks, non-obtuse tetrahedra), Σ|G| = ΣG: the
@@ -184,9 +179,9 @@ template <class V, bool Bound, bool Rate>
 [[gnu::always_inline]] inline double vector_range(const SweepView& v, double* dEdt,
   std::size_t chunk_begin, std::size_t chunk_end, std::size_t next_flux)
 {
-  // A chunk goes through the vector code when it is full and none of its nodes has
-  // rock-contact edges (nor, for the bound, a negative weight).
-  const std::uint8_t scalar_bits = Bound ? v.mixed_edges | v.signed_weights : v.mixed_edges;
+  // A chunk goes through the vector code when it is full and none of its nodes is a contact
+  // node (nor, for the bound, has a negative weight).
+  const std::uint8_t scalar_bits = Bound ? v.contact | v.signed_weights : v.contact;
   const std::uint32_t scalar_mask = 0x01010101u * scalar_bits;
   const std::size_t full_chunks = v.n / kChunk;
   V worst_lanes;
@@ -321,12 +316,12 @@ double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEd
 {
   static_assert(sizeof(HeatOperator::NodeTK) == 2 * sizeof(double));
   const HeatOperator::SlicedEdges& edges = op.edges_;
-  const SweepView v{ edges.start.data(), edges.count.data(), edges.single.data(),
+  const SweepView v{ edges.start.data(), edges.count.data(),
     edges.neighbour.data(), edges.half_weight.data(), edges.rock.data(), op.node_kind_.data(),
     reinterpret_cast<const double*>(op.node_tk_.data()), op.fits_.data(),
     op.model_->node_sources().data(), op.inverse_capacity_.data(), op.flux_stiffness_.data(),
     op.model_->n_nodes(), HeatOperator::kFluxFace, HeatOperator::kSignedWeights,
-    HeatOperator::kMixedEdges };
+    HeatOperator::kContact };
   // Flux-boundary nodes of this range, in the same ascending order: one search per range.
   const std::size_t next_flux = bound ? op.flux_index(chunk_begin * kChunk) : 0;
   if (bound && rate)
@@ -336,6 +331,17 @@ double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEd
   if (rate)
     return level_range<false, true>(v, dEdt, chunk_begin, chunk_end, next_flux);
   return 0.0;
+}
+
+void HeatSweep::contact_pairs(
+  const HeatOperator& op, const double* T, std::size_t begin, std::size_t end)
+{
+  HeatOperator::NodeTK* pair = op.node_tk_.data() + op.node_rock_.size();
+  for (std::size_t m = begin; m != end; ++m)
+  {
+    const double Tm = T[op.contact_pair_node_[m]];
+    pair[m] = { Tm, op.fits_[op.contact_pair_rock_[m]](Tm) };
+  }
 }
 
 void HeatSweep::pairs(const HeatOperator& op, const double* T, std::size_t begin, std::size_t end)

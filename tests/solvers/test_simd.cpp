@@ -161,7 +161,7 @@ TEST(Simd, ConductionSweepEqualsTheScalarSweepAtEveryLevel)
     base = condition(BoundaryCondition::Kind::HeatFlux, Side::Bottom, 0.08),
     side = condition(BoundaryCondition::Kind::FixedTemperature, Side::Sides, 40);
   const HeatOperator op(model, { top, base, side });
-  ASSERT_GT(op.mixed_edge_entries(), 0u);
+  ASSERT_GT(op.contact_nodes(), 0u);
   ASSERT_GT(op.edge_slots(), op.edge_entries()) << "some chunks should be padded";
   tbb::task_arena arena(2);
   int negative = 0; // A_ij < 0: a negative weight

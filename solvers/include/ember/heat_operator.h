@@ -106,10 +106,11 @@ public:
   std::size_t edge_entries() const { return edge_entries_; }
   /// Slots the edge storage holds: the entries plus padding to each chunk's longest row.
   std::size_t edge_slots() const { return edges_.neighbour.size(); }
-  /// Those of them with an end that is not a single-rock node of the edge's rock.
-  std::size_t mixed_edge_entries() const;
-  /// Nodes with such entries.
-  std::size_t nodes_with_mixed_edges() const;
+  /// Rock-contact nodes (cells of several rocks meet there) and their edge entries.
+  std::size_t contact_nodes() const;
+  std::size_t contact_edge_entries() const;
+  /// (T, k) pairs kept for the contact nodes: one per (contact node, rock).
+  std::size_t contact_pairs() const { return contact_pair_node_.size(); }
   /// Bytes this operator keeps per node (edges, capacities, flags; boundary groups apart).
   double bytes_per_node() const;
 
@@ -146,7 +147,7 @@ private:
     kHeld = 1,          ///< fixed temperature
     kFluxFace = 2,      ///< on a radiation / convection / heat-flow boundary group
     kSignedWeights = 4, ///< has a negative edge weight (obtuse cells): Σ|G| ≠ ΣG
-    kMixedEdges = 8     ///< has edges with a rock-contact end (edges_.single applies)
+    kContact = 8        ///< cells of several rocks meet at the node: k per edge rock
   };
 
   const ThermalModel* model_;
@@ -163,18 +164,18 @@ private:
    * SIAM J. Sci. Comput. 36(5)): node i's s-th edge sits in slot
    * start[i / 4] + 4 s + i % 4, so the sweep takes 4 consecutive nodes' s-th edges with one
    * vector load. A chunk holds as many slots per node as its longest row; the padding
-   * points a node at itself with weight 0 and adds exactly nothing. Each node's edges are
-   * sorted by (neighbour, rock): the fixed summation order behind thread-count and
-   * vector-width independence. Edges between two single-rock nodes come first, up to
-   * single[i]; the others (rock contacts) are read only at kMixedEdges nodes.
+   * points a node at itself with weight 0 and adds exactly nothing. An edge names its far
+   * end by the (T, k) pair to gather (node_tk_): the node's own pair, or, where the far end
+   * is a contact node, that node's pair for the edge's rock. Each node's edges are sorted by
+   * (rock, far node): the fixed summation order behind thread-count and vector-width
+   * independence (a contact node evaluates its own k once per rock).
    */
   struct SlicedEdges
   {
     static constexpr std::size_t kChunk = 4;
     std::vector<std::uint32_t> start;     ///< first slot of each chunk, and the total
     std::vector<std::uint16_t> count;     ///< edges of each node
-    std::vector<std::uint16_t> single;    ///< of them, those between single-rock ends
-    std::vector<std::uint32_t> neighbour; ///< j
+    std::vector<std::uint32_t> neighbour; ///< index of the far end's (T, k) pair
     std::vector<double> half_weight;      ///< ½ W^r_ij [m]
     std::vector<std::uint8_t> rock;       ///< r
     std::size_t slot(std::size_t node, std::size_t s) const
@@ -191,9 +192,18 @@ private:
   {
     double T, k;
   };
-  /// T_i and k_rock(T_i) of single-rock nodes side by side (one cache line per neighbour in
-  /// the sweep's gather), filled at the start of each rate call.
+  /// (T_i, k_rock(T_i)) side by side (one cache line per neighbour in the sweep's gather),
+  /// filled at the start of each rate call: first one pair per node (k of its rock at
+  /// single-rock nodes, 0 at contact nodes), then one per (contact node, rock).
   mutable std::vector<NodeTK> node_tk_;
+  std::vector<std::uint32_t> contact_pair_node_; ///< node of pair n + m
+  std::vector<std::uint8_t> contact_pair_rock_;  ///< rock of pair n + m
+  /// The node whose temperature pair p carries.
+  std::size_t pair_node(std::size_t p) const
+  {
+    const std::size_t n = node_rock_.size();
+    return p < n ? p : contact_pair_node_[p - n];
+  }
   std::vector<std::uint32_t> flux_nodes_;      ///< nodes on flux-boundary groups, ascending
   mutable std::vector<double> flux_stiffness_; ///< their Σ_b |A_ib| [W/K], same order
   std::size_t flux_index(std::size_t node) const;
