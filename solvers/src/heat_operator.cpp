@@ -377,10 +377,6 @@ double HeatOperator::sweep_all(const std::vector<double>& T, std::vector<double>
       [&](const tbb::blocked_range<std::size_t>& r) {
         HeatSweep::pairs(*this, T.data(), r.begin(), r.end());
       });
-    tbb::parallel_for(tbb::blocked_range<std::size_t>(0, contact_pairs(), kGrain),
-      [&](const tbb::blocked_range<std::size_t>& r) {
-        HeatSweep::contact_pairs(*this, T.data(), r.begin(), r.end());
-      });
     return tbb::parallel_reduce(
       tbb::blocked_range<std::size_t>(0, chunks, kGrain / SlicedEdges::kChunk), 0.0,
       [&](const tbb::blocked_range<std::size_t>& r, double w) {

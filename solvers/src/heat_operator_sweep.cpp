@@ -4,7 +4,8 @@
 // one vector: the weights in one load, the far ends' (T, k) pairs in four. Chunks with a
 // rock-contact node, or with a negative weight when the bound is asked for, go node by node
 // through the scalar code. Every level sums each node's edges in the same order with the
-// same operations (no FMA: simd.h), so all levels give the scalar level's bits.
+// same operations (no FMA: simd.h), so all levels give the scalar level's bits. The pass
+// before it, which writes the (T, k) pairs the sweep gathers, is vectorised the same way.
 #include "heat_sweep.h"
 
 #include "ember/simd.h"
@@ -227,6 +228,7 @@ double level_range(const SweepView& v, double* dEdt, std::size_t chunk_begin,
       return scalar_range<Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
   }
 }
+
 // ---- The (T, k) pairs the sweep gathers, written at the start of each rate call ----------
 
 struct PairView
@@ -333,17 +335,6 @@ double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEd
   return 0.0;
 }
 
-void HeatSweep::contact_pairs(
-  const HeatOperator& op, const double* T, std::size_t begin, std::size_t end)
-{
-  HeatOperator::NodeTK* pair = op.node_tk_.data() + op.node_rock_.size();
-  for (std::size_t m = begin; m != end; ++m)
-  {
-    const double Tm = T[op.contact_pair_node_[m]];
-    pair[m] = { Tm, op.fits_[op.contact_pair_rock_[m]](Tm) };
-  }
-}
-
 void HeatSweep::pairs(const HeatOperator& op, const double* T, std::size_t begin, std::size_t end)
 {
   const PairView v{ T, op.node_rock_.data(), op.fits_.data(),
@@ -352,12 +343,24 @@ void HeatSweep::pairs(const HeatOperator& op, const double* T, std::size_t begin
   {
 #if defined(__x86_64__) && defined(__GNUC__)
     case SimdLevel::AVX2:
-      return avx2_pairs(v, begin, end);
+      avx2_pairs(v, begin, end);
+      break;
     case SimdLevel::SSE2:
-      return vector_pairs<Lanes2>(v, begin, end);
+      vector_pairs<Lanes2>(v, begin, end);
+      break;
 #endif
     default:
-      return scalar_pairs(v, begin, end);
+      scalar_pairs(v, begin, end);
+  }
+  // The contact nodes' pairs per rock, stored in node order after the nodes' own.
+  const std::vector<std::uint32_t>& node = op.contact_pair_node_;
+  const std::size_t first = static_cast<std::size_t>(
+    std::lower_bound(node.begin(), node.end(), begin) - node.begin());
+  HeatOperator::NodeTK* pair = op.node_tk_.data() + op.node_rock_.size();
+  for (std::size_t m = first; m < node.size() && node[m] < end; ++m)
+  {
+    const double Tm = T[node[m]];
+    pair[m] = { Tm, op.fits_[op.contact_pair_rock_[m]](Tm) };
   }
 }
 

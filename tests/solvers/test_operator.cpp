@@ -138,8 +138,8 @@ TEST(Operator, LedgerBalancesWithRadiationConvectionAndFixedBase)
 }
 
 // Two copies of one rock are one material: assigning them to alternate cells must not change
-// the rate. Uniform cells take the single-rock path (k per node); alternating cells make
-// every node mixed-rock, where each edge evaluates k per rock itself. Both are
+// the rate. Uniform cells take the single-rock path (k per node, vector sweep); alternating
+// cells make every node a contact node (k per (node, rock) pair, scalar sweep). Both are
 // G = ½W (k(T_i) + k(T_j)); only the grouping of the weights' sums differs (round-off).
 TEST(Operator, RateDoesNotDependOnSplittingARockIntoIdenticalCopies)
 {
