@@ -134,79 +134,114 @@ TEST(Simd, BlockTemperaturesEqualTheOneNodeSolveAtEveryLevel)
   EXPECT_GT(contacts, 8u);
 }
 
-// The conduction sweep (heat_operator_sweep.cpp): rate, stable step and the ledger at every
-// level equal the scalar level's bits, on a mesh that exercises every path of it: distorted
-// tetrahedra (negative weights, rows of unequal length, so padded chunks), two rocks with
-// k(T) (rock-contact nodes), radiation, heat-flow and fixed-temperature boundaries, and a
-// node count that leaves the last chunk of 4 short.
+namespace ember
+{
+// Reads what the bound leaves per flux-boundary node (Σ_b |A_ib| plus its faces' stiffness).
+struct HeatOperatorProbe
+{
+  static const std::vector<double>& flux_stiffness(const HeatOperator& op)
+  {
+    return op.flux_stiffness_;
+  }
+};
+} // namespace ember
+
+// The conduction sweep (heat_operator_sweep.cpp): rate, stable step, each flux-boundary node's
+// stiffness and the ledger at every level equal the scalar level's bits, for several
+// temperature fields, on meshes that exercise every path: tetrahedra distorted (negative
+// weights: the bound runs those chunks through the scalar code) and not (the bound's vector
+// path), rows of unequal length (padded chunks), two rocks with k(T) (contact nodes and their
+// per-rock pairs), radiation, heat-flow and fixed-temperature boundaries, and a node count that
+// leaves the last chunk of 4 short. A third case, one rock and insulated, puts the largest
+// rate, and so the step, in the vector chunks (with radiation it sits at the surface). Temperatures are finite: a padding slot turns an infinite
+// T into NaN where the scalar code gives ±inf (simd.h).
 TEST(Simd, ConductionSweepEqualsTheScalarSweepAtEveryLevel)
 {
   SimdLevelGuard guard;
-  Mesh mesh = make_box_tet({ 0, 0, 0 }, { 6, 6, 10 }, { 6, 6, 10 });
-  const std::size_t n = mesh.n_points();
-  ASSERT_NE(n % 4, 0u) << "the last chunk should be short";
-  distort_interior(mesh, { 6, 6, 10 }, 0.2); // some weights turn negative
-  mark_layer(mesh, 4, 6); // rock contacts at mid-height, single-rock chunks above and below
-  Rock host = waples_host();
-  host.conductivity.law = Conductivity::Law::VosteenSchellschmidt;
-  const ThermalModel model(mesh, { host, basalt_with_latent() }, mesh.cell_region);
-  const auto condition = [](BoundaryCondition::Kind kind, Side side, double value) {
-    BoundaryCondition bc;
-    bc.kind = kind;
-    bc.side = side;
-    bc.heat_flux = bc.temperature = value; // the one this kind reads
-    return bc;
-  };
-  const BoundaryCondition top = condition(BoundaryCondition::Kind::Radiation, Side::Top, 0),
-    base = condition(BoundaryCondition::Kind::HeatFlux, Side::Bottom, 0.08),
-    side = condition(BoundaryCondition::Kind::FixedTemperature, Side::Sides, 40);
-  const HeatOperator op(model, { top, base, side });
-  ASSERT_GT(op.contact_nodes(), 0u);
-  ASSERT_GT(op.edge_slots(), op.edge_entries()) << "some chunks should be padded";
-  tbb::task_arena arena(2);
-  int negative = 0; // A_ij < 0: a negative weight
-  for_each_operator_column(op, n, arena, [&](std::size_t j, const std::vector<double>& column) {
-    for (std::size_t i = 0; i < n; ++i)
-      negative += i != j && column[i] < 0.0;
-  });
-  ASSERT_GT(negative, 0) << "the distortion should make some weights negative";
+  for (int variant = 0; variant < 3; ++variant)
+  {
+    const bool distorted = variant == 0, one_rock = variant == 2;
+    SCOPED_TRACE(distorted ? "distorted" : one_rock ? "one rock, insulated" : "regular");
+    Mesh mesh = make_box_tet({ 0, 0, 0 }, { 6, 6, 10 }, { 6, 6, 10 });
+    const std::size_t n = mesh.n_points();
+    ASSERT_NE(n % 4, 0u) << "the last chunk should be short";
+    if (distorted)
+      distort_interior(mesh, { 6, 6, 10 }, 0.2);
+    if (!one_rock)
+      mark_layer(mesh, 4, 6); // contacts at mid-height, single-rock chunks above and below
+    Rock host = waples_host();
+    host.conductivity.law = Conductivity::Law::VosteenSchellschmidt;
+    const ThermalModel model(mesh, { host, basalt_with_latent() }, mesh.cell_region);
+    const auto condition = [](BoundaryCondition::Kind kind, Side side, double value) {
+      BoundaryCondition bc;
+      bc.kind = kind;
+      bc.side = side;
+      bc.heat_flux = bc.temperature = value; // the one this kind reads
+      return bc;
+    };
+    const BoundaryCondition top = condition(BoundaryCondition::Kind::Radiation, Side::Top, 0),
+      base = condition(BoundaryCondition::Kind::HeatFlux, Side::Bottom, 0.08),
+      side = condition(BoundaryCondition::Kind::FixedTemperature, Side::Sides, 40);
+    const HeatOperator op(model,
+      one_rock ? std::vector<BoundaryCondition>{} : std::vector<BoundaryCondition>{ top, base, side });
+    ASSERT_EQ(op.contact_nodes() > 0, !one_rock);
+    ASSERT_GT(op.edge_slots(), op.edge_entries()) << "some chunks should be padded";
+    tbb::task_arena arena(2);
+    int negative = 0; // A_ij < 0: a negative weight
+    for_each_operator_column(op, n, arena, [&](std::size_t j, const std::vector<double>& column) {
+      for (std::size_t i = 0; i < n; ++i)
+        negative += i != j && column[i] < 0.0;
+    });
+    if (distorted)
+      ASSERT_GT(negative, 0) << "the distortion should make some weights negative";
+    else
+      ASSERT_EQ(negative, 0);
 
-  std::mt19937 random(777); // fixed seed
-  std::uniform_real_distribution<double> temperature(0.0, 1200.0);
-  std::vector<double> T(n);
-  for (double& t : T)
-    t = temperature(random);
-  struct Result
-  {
-    std::vector<double> rate, rate_bound;
-    double step, step_alone;
-    PowerTally tally;
-  };
-  const auto evaluate = [&] {
-    Result r;
-    op.rate(T, r.rate, r.tally, arena);
-    PowerTally unused;
-    r.step = op.rate_and_stable_step(T, r.rate_bound, unused, arena);
-    r.step_alone = op.stable_time_step(T, arena);
-    return r;
-  };
-  set_simd_level(SimdLevel::Scalar);
-  const Result reference = evaluate();
-  ASSERT_TRUE(std::isfinite(reference.step));
-  ASSERT_EQ(reference.step, reference.step_alone);
-  for (SimdLevel level : supported_simd_levels())
-  {
-    set_simd_level(level);
-    const Result r = evaluate();
-    const std::string name = simd_level_name(level);
-    for (std::size_t i = 0; i < n; ++i)
+    struct Result
     {
-      ASSERT_TRUE(same_bits(r.rate[i], reference.rate[i]))
-        << name << ": node " << i << " rate " << r.rate[i] << " vs " << reference.rate[i];
-      ASSERT_TRUE(same_bits(r.rate_bound[i], reference.rate[i])) << name << ": node " << i;
+      std::vector<double> rate, rate_bound, flux_stiffness;
+      double step, step_alone;
+      PowerTally tally;
+    };
+    std::mt19937 random(777); // fixed seed
+    std::uniform_real_distribution<double> temperature(0.0, 1200.0);
+    for (int field = 0; field < 8; ++field)
+    {
+      std::vector<double> T(n);
+      for (double& t : T)
+        t = temperature(random);
+      const auto evaluate = [&] {
+        Result r;
+        op.rate(T, r.rate, r.tally, arena);
+        PowerTally unused;
+        r.step = op.rate_and_stable_step(T, r.rate_bound, unused, arena);
+        r.flux_stiffness = HeatOperatorProbe::flux_stiffness(op);
+        r.step_alone = op.stable_time_step(T, arena);
+        return r;
+      };
+      set_simd_level(SimdLevel::Scalar);
+      const Result reference = evaluate();
+      ASSERT_TRUE(std::isfinite(reference.step));
+      ASSERT_EQ(reference.step, reference.step_alone);
+      ASSERT_EQ(reference.flux_stiffness.empty(), one_rock);
+      for (SimdLevel level : supported_simd_levels())
+      {
+        set_simd_level(level);
+        const Result r = evaluate();
+        const std::string name = simd_level_name(level) + ", field " + std::to_string(field);
+        for (std::size_t i = 0; i < n; ++i)
+        {
+          ASSERT_TRUE(same_bits(r.rate[i], reference.rate[i]))
+            << name << ": node " << i << " rate " << r.rate[i] << " vs " << reference.rate[i];
+          ASSERT_TRUE(same_bits(r.rate_bound[i], reference.rate[i])) << name << ": node " << i;
+        }
+        for (std::size_t k = 0; k < reference.flux_stiffness.size(); ++k)
+          ASSERT_TRUE(same_bits(r.flux_stiffness[k], reference.flux_stiffness[k]))
+            << name << ": flux node " << k;
+        EXPECT_TRUE(same_bits(r.step, reference.step)) << name;
+        EXPECT_TRUE(same_bits(r.step_alone, reference.step)) << name;
+        EXPECT_TRUE(same_bits(r.tally.boundary, reference.tally.boundary)) << name;
+      }
     }
-    EXPECT_TRUE(same_bits(r.step, reference.step)) << name;
-    EXPECT_TRUE(same_bits(r.step_alone, reference.step)) << name;
-    EXPECT_TRUE(same_bits(r.tally.boundary, reference.tally.boundary)) << name;
   }
 }

@@ -127,7 +127,8 @@ private:
     std::vector<NodeArea> nodes; ///< unique nodes, ascending
   };
 
-  friend struct HeatSweep; // the conduction sweep (heat_operator_sweep.cpp)
+  friend struct HeatSweep;        // the conduction sweep (heat_operator_sweep.cpp)
+  friend struct HeatOperatorProbe; // tests: per-node sweep results (test_simd.cpp)
   /// The conduction sweep over all nodes at T (fills node_tk_ first): with Rate writes dEdt
   /// (sources included); with Bound returns the largest Gershgorin rate
   /// λ_i = Σ_b |A_ib| / C_i over the interior nodes and leaves Σ_b |A_ib| of flux-boundary
