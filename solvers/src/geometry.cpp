@@ -517,6 +517,10 @@ std::vector<BoundaryFace> find_boundary_faces(const Mesh& mesh)
     int local;
   };
   std::vector<Entry> entries;
+  std::size_t n_faces = 0; // sized once (validate_mesh's face list says why)
+  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
+    n_faces += local_faces(mesh.cell_types[c]).size();
+  entries.reserve(n_faces);
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
   {
     const auto nodes = mesh.nodes(c);
