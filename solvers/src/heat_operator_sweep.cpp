@@ -90,9 +90,10 @@ double scalar_node(const SweepView& v, std::size_t i, double* dEdt, std::size_t&
   return stiffness * v.inverse_capacity[i];
 }
 
+/// The nodes of chunks [chunk_begin, chunk_end) one at a time; returns the largest λ_i.
 template <bool Bound, bool Rate>
-double scalar_range(const SweepView& v, double* dEdt, std::size_t chunk_begin,
-  std::size_t chunk_end, std::size_t next_flux)
+double scalar_chunks(const SweepView& v, double* dEdt, std::size_t chunk_begin,
+  std::size_t chunk_end, std::size_t& next_flux)
 {
   double worst = 0.0;
   for (std::size_t i = chunk_begin * kChunk; i < std::min(chunk_end * kChunk, v.n); ++i)
@@ -127,10 +128,10 @@ double scalar_range(const SweepView& v, double* dEdt, std::size_t chunk_begin,
 
 /// The 4 nodes of chunk c, W at a time: scalar_node's sums lane by lane. The chunk's padding
 /// slots (weight 0, the node itself) add +0 to sums that start at +0, which leaves them as
-/// they are.
+/// they are. `flux` says whether any of the 4 is a flux-boundary node.
 template <class V, bool Bound, bool Rate>
 [[gnu::always_inline]] inline void vector_chunk(const SweepView& v, std::size_t c,
-  double* dEdt, V& worst, std::size_t& next_flux)
+  bool flux, double* dEdt, V& worst, std::size_t& next_flux)
 {
   constexpr std::size_t W = kWidth<V>;
   const std::size_t first_slot = v.chunk_start[c];
@@ -169,7 +170,7 @@ template <class V, bool Bound, bool Rate>
       load(inverse_capacity, v.inverse_capacity + i);
       const V lambda = stiffness * inverse_capacity;
       worst = worst < lambda ? lambda : worst; // std::max(worst, λ) lane by lane
-      for (std::size_t l = 0; l < W; ++l)
+      for (std::size_t l = 0; flux && l < W; ++l)
         if (v.kind[i + l] & v.flux_face)
           v.flux_stiffness[next_flux++] = stiffness[l];
     }
@@ -184,6 +185,7 @@ template <class V, bool Bound, bool Rate>
   // node (nor, for the bound, has a negative weight).
   const std::uint8_t scalar_bits = Bound ? v.contact | v.signed_weights : v.contact;
   const std::uint32_t scalar_mask = 0x01010101u * scalar_bits;
+  const std::uint32_t flux_mask = 0x01010101u * v.flux_face;
   const std::size_t full_chunks = v.n / kChunk;
   V worst_lanes;
   splat(worst_lanes, 0.0);
@@ -194,10 +196,9 @@ template <class V, bool Bound, bool Rate>
     if (c < full_chunks)
       std::memcpy(&kinds, v.kind + c * kChunk, sizeof kinds);
     if (!(kinds & scalar_mask))
-      vector_chunk<V, Bound, Rate>(v, c, dEdt, worst_lanes, next_flux);
+      vector_chunk<V, Bound, Rate>(v, c, (kinds & flux_mask) != 0, dEdt, worst_lanes, next_flux);
     else
-      for (std::size_t i = c * kChunk; i < std::min((c + 1) * kChunk, v.n); ++i)
-        worst = std::max(worst, scalar_node<Bound, Rate>(v, i, dEdt, next_flux));
+      worst = std::max(worst, scalar_chunks<Bound, Rate>(v, dEdt, c, c + 1, next_flux));
   }
   for (std::size_t l = 0; l < kWidth<V>; ++l)
     worst = std::max(worst, worst_lanes[l]);
@@ -225,7 +226,7 @@ double level_range(const SweepView& v, double* dEdt, std::size_t chunk_begin,
       return vector_range<Lanes2, Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
 #endif
     default:
-      return scalar_range<Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
+      return scalar_chunks<Bound, Rate>(v, dEdt, chunk_begin, chunk_end, next_flux);
   }
 }
 
