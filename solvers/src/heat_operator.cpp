@@ -200,8 +200,9 @@ void HeatOperator::build_edges()
         contact_pair_rock_.push_back(static_cast<std::uint8_t>(share.rock));
       }
     }
-  if (n + contact_pair_node_.size() > std::numeric_limits<std::uint32_t>::max())
-    throw std::invalid_argument("mesh too large for the heat operator: more than 2^32 - 1 "
+  // Edges address a pair by the offset of its T among the pairs' doubles (2 × its index).
+  if (2 * (n + contact_pair_node_.size()) > std::numeric_limits<std::uint32_t>::max())
+    throw std::invalid_argument("mesh too large for the heat operator: more than 2^31 - 1 "
                                 "(node, rock) temperature pairs");
   node_tk_.assign(n + contact_pair_node_.size(), {});
   // The pair an edge of rock r gathers for its far end j.
@@ -291,7 +292,7 @@ void HeatOperator::build_edges()
                                   "node-to-node coupling slots");
     e.start[c + 1] = static_cast<std::uint32_t>(slots);
   }
-  e.neighbour.assign(slots, 0);
+  e.far_offset.assign(slots, 0);
   e.half_weight.assign(slots, 0.0);
   e.rock.assign(slots, 0);
   for (std::size_t c = 0; c < chunks; ++c)
@@ -299,13 +300,13 @@ void HeatOperator::build_edges()
     {
       const std::size_t i = c * C + l;
       for (std::size_t k = e.start[c] + l; k < e.start[c + 1]; k += C)
-        e.neighbour[k] = static_cast<std::uint32_t>(std::min(i, n - 1));
+        e.far_offset[k] = static_cast<std::uint32_t>(2 * std::min(i, n - 1));
       if (i >= n)
         continue;
       for (std::size_t s = 0; s < e.count[i]; ++s)
       {
         const std::size_t k = e.slot(i, s), from = row_start[i] + s;
-        e.neighbour[k] = row_node[from];
+        e.far_offset[k] = 2 * row_node[from];
         e.half_weight[k] = row_weight[from];
         e.rock[k] = row_rock[from];
       }
@@ -485,7 +486,7 @@ std::vector<double> HeatOperator::steady_state(std::vector<double> T) const
       for (std::size_t e = 0; e < edges_.count[i]; ++e)
       {
         const std::size_t k = edges_.slot(i, e);
-        const std::size_t j = pair_node(edges_.neighbour[k]);
+        const std::size_t j = pair_node(edges_.far_offset[k] / 2);
         const double G = conductance(k, T[i], T[j]);
         diagonal += G;
         if (unknown[j] >= 0)

@@ -27,7 +27,7 @@ struct SweepView
 {
   const std::uint32_t* chunk_start;
   const std::uint16_t* count;
-  const std::uint32_t* neighbour;
+  const std::uint32_t* far_offset; ///< of the far end's pair in tk: its T at tk[o], k at tk[o + 1]
   const double* half_weight;
   const std::uint8_t* rock;
   const std::uint8_t* kind;
@@ -63,9 +63,9 @@ double scalar_node(const SweepView& v, std::size_t i, double* dEdt, std::size_t&
         near_rock = v.rock[k];
         k_near = v.fits[near_rock](Ti);
       }
-      const std::uint32_t p = v.neighbour[k];
-      const double G = v.half_weight[k] * (k_near + v.tk[2 * p + 1]);
-      s += G * (v.tk[2 * p] - Ti);
+      const double* far = v.tk + v.far_offset[k];
+      const double G = v.half_weight[k] * (k_near + far[1]);
+      s += G * (far[0] - Ti);
       if constexpr (Bound)
         g_sum += G;
       if constexpr (Signed)
@@ -102,28 +102,46 @@ double scalar_chunks(const SweepView& v, double* dEdt, std::size_t chunk_begin,
 }
 
 #if defined(__x86_64__) && defined(__GNUC__)
-// T and k of the nodes idx[0..W): one 16-byte load per (T, k) pair, then a transpose
-// (unpcklpd / unpckhpd, with AVX2 after vinsertf128).
-[[gnu::always_inline]] inline Lanes2 pair(const double* tk, std::uint32_t node)
+// T and k of the pairs at offsets at[0..W) of tk: one 16-byte load per (T, k) pair, then a
+// transpose (unpcklpd / unpckhpd, with AVX2 after vinsertf128).
+[[gnu::always_inline]] inline Lanes2 pair(const double* tk, std::uint32_t offset)
 {
   Lanes2 p;
-  std::memcpy(&p, tk + 2 * std::size_t{ node }, sizeof p);
+  std::memcpy(&p, tk + offset, sizeof p);
   return p;
 }
 [[gnu::always_inline]] inline void gather_tk(
-  const double* tk, const std::uint32_t* idx, Lanes2& T, Lanes2& k)
+  const double* tk, const std::uint32_t* at, Lanes2& T, Lanes2& k)
 {
-  const Lanes2 p0 = pair(tk, idx[0]), p1 = pair(tk, idx[1]);
+  const Lanes2 p0 = pair(tk, at[0]), p1 = pair(tk, at[1]);
   T = __builtin_shufflevector(p0, p1, 0, 2);
   k = __builtin_shufflevector(p0, p1, 1, 3);
 }
 [[gnu::always_inline]] inline void gather_tk(
-  const double* tk, const std::uint32_t* idx, Lanes4& T, Lanes4& k)
+  const double* tk, const std::uint32_t* at, Lanes4& T, Lanes4& k)
 {
-  const Lanes4 a = __builtin_shufflevector(pair(tk, idx[0]), pair(tk, idx[2]), 0, 1, 2, 3);
-  const Lanes4 b = __builtin_shufflevector(pair(tk, idx[1]), pair(tk, idx[3]), 0, 1, 2, 3);
+  const Lanes4 a = __builtin_shufflevector(pair(tk, at[0]), pair(tk, at[2]), 0, 1, 2, 3);
+  const Lanes4 b = __builtin_shufflevector(pair(tk, at[1]), pair(tk, at[3]), 0, 1, 2, 3);
   T = __builtin_shufflevector(a, b, 0, 4, 2, 6); // {T0, T1, T2, T3}
   k = __builtin_shufflevector(a, b, 1, 5, 3, 7);
+}
+
+// T and k of W consecutive nodes, whose pairs lie side by side from tk: two loads, a transpose.
+[[gnu::always_inline]] inline void own_tk(const double* tk, Lanes2& T, Lanes2& k)
+{
+  Lanes2 a, b;
+  load(a, tk);
+  load(b, tk + 2);
+  T = __builtin_shufflevector(a, b, 0, 2);
+  k = __builtin_shufflevector(a, b, 1, 3);
+}
+[[gnu::always_inline]] inline void own_tk(const double* tk, Lanes4& T, Lanes4& k)
+{
+  Lanes4 a, b;
+  load(a, tk);
+  load(b, tk + 4);
+  T = __builtin_shufflevector(a, b, 0, 2, 4, 6);
+  k = __builtin_shufflevector(a, b, 1, 3, 5, 7);
 }
 
 /// The 4 nodes of chunk c, W at a time: scalar_node's sums lane by lane. The chunk's padding
@@ -139,11 +157,8 @@ template <class V, bool Bound, bool Rate>
   for (std::size_t part = 0; part < kChunk; part += W)
   {
     const std::size_t i = c * kChunk + part;
-    std::uint32_t self[W];
-    for (std::size_t l = 0; l < W; ++l)
-      self[l] = static_cast<std::uint32_t>(i + l);
     V Ti, ki, s, g;
-    gather_tk(v.tk, self, Ti, ki);
+    own_tk(v.tk + 2 * i, Ti, ki);
     splat(s, 0.0);
     splat(g, 0.0);
     for (std::size_t e = 0; e < slots; ++e)
@@ -151,7 +166,7 @@ template <class V, bool Bound, bool Rate>
       const std::size_t k = first_slot + kChunk * e + part;
       V w, Tj, kj;
       load(w, v.half_weight + k);
-      gather_tk(v.tk, v.neighbour + k, Tj, kj);
+      gather_tk(v.tk, v.far_offset + k, Tj, kj);
       const V G = w * (ki + kj);
       s = s + G * (Tj - Ti);
       if constexpr (Bound)
@@ -320,7 +335,7 @@ double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEd
   static_assert(sizeof(HeatOperator::NodeTK) == 2 * sizeof(double));
   const HeatOperator::SlicedEdges& edges = op.edges_;
   const SweepView v{ edges.start.data(), edges.count.data(),
-    edges.neighbour.data(), edges.half_weight.data(), edges.rock.data(), op.node_kind_.data(),
+    edges.far_offset.data(), edges.half_weight.data(), edges.rock.data(), op.node_kind_.data(),
     reinterpret_cast<const double*>(op.node_tk_.data()), op.fits_.data(),
     op.model_->node_sources().data(), op.inverse_capacity_.data(), op.flux_stiffness_.data(),
     op.model_->n_nodes(), HeatOperator::kFluxFace, HeatOperator::kSignedWeights,

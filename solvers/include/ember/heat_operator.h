@@ -105,7 +105,7 @@ public:
   /// Directed edge entries (node pairs sharing a cell, per rock) over all nodes.
   std::size_t edge_entries() const { return edge_entries_; }
   /// Slots the edge storage holds: the entries plus padding to each chunk's longest row.
-  std::size_t edge_slots() const { return edges_.neighbour.size(); }
+  std::size_t edge_slots() const { return edges_.far_offset.size(); }
   /// Rock-contact nodes (cells of several rocks meet there) and their edge entries.
   std::size_t contact_nodes() const;
   std::size_t contact_edge_entries() const;
@@ -176,7 +176,9 @@ private:
     static constexpr std::size_t kChunk = 4;
     std::vector<std::uint32_t> start;     ///< first slot of each chunk, and the total
     std::vector<std::uint16_t> count;     ///< edges of each node
-    std::vector<std::uint32_t> neighbour; ///< index of the far end's (T, k) pair
+    /// Where the far end's (T, k) pair starts among the pairs' doubles (2 × its index), so
+    /// the sweep's loads address it with a scaled index and no shift.
+    std::vector<std::uint32_t> far_offset;
     std::vector<double> half_weight;      ///< ½ W^r_ij [m]
     std::vector<std::uint8_t> rock;       ///< r
     std::size_t slot(std::size_t node, std::size_t s) const
