@@ -66,18 +66,42 @@ double best_time(int repeats, const std::function<void()>& f)
   return best;
 }
 
-// Best wall time of each function [s], timed in `rounds` rounds that each run every function
-// `repeats` times in turn. The load of a shared machine drifts over minutes (the CSR yardstick
-// alone moved by 45 % between two runs); alternating compares the step and the yardstick under
-// the same conditions, so their ratio is far steadier than either figure.
-std::vector<double> interleaved_best_times(
+// Wall times of functions timed in `rounds` rounds that each run every function `repeats`
+// times in turn: per round the best of its repeats, and the best over all rounds [s]. The load
+// of a shared machine drifts over minutes (the CSR yardstick alone moved by 45 % between two
+// runs) and jumps over seconds; alternating compares the step and the yardstick under the same
+// conditions, so their ratio is far steadier than either figure.
+struct InterleavedTimes
+{
+  std::vector<std::vector<double>> per_round; ///< [round][function]
+  std::vector<double> best;                   ///< [function]
+  /// Median over the rounds of time(b) / time(a) within one round: the ratio least moved by
+  /// a load that changes between rounds.
+  double median_ratio(std::size_t a, std::size_t b) const
+  {
+    std::vector<double> r;
+    for (const auto& t : per_round)
+      r.push_back(t[b] / t[a]);
+    std::sort(r.begin(), r.end());
+    const std::size_t m = r.size() / 2;
+    return r.size() % 2 ? r[m] : 0.5 * (r[m - 1] + r[m]);
+  }
+};
+InterleavedTimes interleaved_times(
   const std::vector<std::function<void()>>& fs, int rounds, int repeats)
 {
-  std::vector<double> best(fs.size(), 1e300);
+  InterleavedTimes t;
+  t.best.assign(fs.size(), 1e300);
   for (int round = 0; round < rounds; ++round)
+  {
+    t.per_round.emplace_back(fs.size());
     for (std::size_t f = 0; f < fs.size(); ++f)
-      best[f] = std::min(best[f], best_time(repeats, fs[f]));
-  return best;
+    {
+      t.per_round.back()[f] = best_time(repeats, fs[f]);
+      t.best[f] = std::min(t.best[f], t.per_round.back()[f]);
+    }
+  }
+  return t;
 }
 
 double resident_bytes()
@@ -347,9 +371,9 @@ std::function<void()> spmv_function(const Csr& a, tbb::task_arena& arena)
 // write-back; the gathers along the edges are assumed to hit cache). Per pass:
 //   conductivity: T 8, node rock 1, (T, k) pair out 32;
 //   contact pairs: per (contact node, rock) node 4, rock 1, T 8, pair out 32;
-//   rate + stable step: chunk start 1 (4 B per 4 nodes), (T, k) 16, source 8, inverse
-//     capacity (float) 4, node kind 1, rate out 16; per edge slot (padding included)
-//     neighbour 4 + half-weight 8; at contact nodes the edge count 2 and a rock byte per edge
+//   rate + stable step: chunk start 1 (4 B per 4 nodes), (T, k) 16, source 8 (only if a node
+//     has one; the benchmark model has none), inverse capacity (float) 4, node kind 1, rate
+//     out 16; per edge slot (padding included) far-end offset 4 + half-weight 8; at contact nodes the edge count 2 and a rock byte per edge
 //     (the count is also read in the few other scalar chunks: not counted);
 //   update + T(E): rate 8, E in/out 16, T in/out 16, last 1/capacity (float) in/out 8, share
 //     offset 4, per node share its rock 1 and mass 8.
@@ -360,7 +384,7 @@ double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
     shares += model.shares(i).size();
   const double rate = n * (8 + 1 + 32) + op.contact_pairs() * (4.0 + 1 + 8 + 32) +
-    n * (1 + 16 + 8 + 4 + 1 + 16) + op.edge_slots() * (4.0 + 8) +
+    n * (1 + 16 + (op.has_sources() ? 8 : 0) + 4 + 1 + 16) + op.edge_slots() * (4.0 + 8) +
     op.contact_edge_entries() * 1.0 + op.contact_nodes() * 2.0;
   const double update = n * (8 + 16 + 16 + 8 + 4) + shares * (1 + 8);
   return (rate + update) / n;
@@ -412,7 +436,7 @@ void section_step_and_csr(bool step, bool csr)
   if (triad_two_threads == 0.0)
     triad_two_threads = stream_triad(2);
   const double nodes = quick ? 1e5 : 1e6;
-  const int rounds = quick ? 1 : 4, repeats = quick ? 2 : 5;
+  const int rounds = quick ? 1 : 10, repeats = quick ? 2 : 5;
   for (bool tets : meshes)
   {
     const std::string mesh_name = tets ? "tet" : "hex";
@@ -433,7 +457,7 @@ void section_step_and_csr(bool step, bool csr)
     std::printf(
       "# %s mesh: %zu nodes, %zu cells\n", mesh_name.c_str(), p.mesh.n_points(), p.mesh.n_cells());
     // Step (full physics), step (constant properties) and the yardstick's SpMV at 1 and 2
-    // threads, all timed in alternating rounds (interleaved_best_times): the ratios between
+    // threads, all timed in alternating rounds (interleaved_times): the ratios between
     // them, scaling included, then compare runs made under the same load.
     // node-updates/s, indexed by threads; full_scalar: the full step with the node loops at
     // SimdLevel::Scalar, for the vector loops' speed-up (simd.h)
@@ -452,7 +476,8 @@ void section_step_and_csr(bool step, bool csr)
       if (csr)
         fs.push_back(spmv_function(a, *arena_of[threads]));
     }
-    const std::vector<double> t = interleaved_best_times(fs, rounds, repeats);
+    const InterleavedTimes timed = interleaved_times(fs, rounds, repeats);
+    const std::vector<double>& t = timed.best;
     set_simd_level(best_simd_level()); // for the breakdown below
     const std::size_t per_thread_count = fs.size() / 2;
     const double n = p.mesh.n_points();
@@ -521,6 +546,12 @@ void section_step_and_csr(bool step, bool csr)
                full[2] / spmv[2],
                "ratio",
                "mesh=" + mesh_name + " threads=2 target=0.8 timing=interleaved");
+        // The same ratio round by round (step and SpMV timed seconds apart), median of rounds.
+        figure("step_over_csr_measured",
+               timed.median_ratio(per_thread_count, 2 * per_thread_count - 1),
+               "ratio",
+               "mesh=" + mesh_name + " threads=2 target=0.8 timing=round-median rounds=" +
+                 std::to_string(rounds));
         figure("step_over_csr_measured",
                linear[2] / spmv[2],
                "ratio",

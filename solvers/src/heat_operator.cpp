@@ -329,6 +329,8 @@ void HeatOperator::refresh()
     if (!(node_kind_[i] & kHeld))
       source_total_ += model.node_source(i);
   }
+  const std::vector<double>& sources = model.node_sources();
+  any_source_ = std::any_of(sources.begin(), sources.end(), [](double q) { return q != 0.0; });
   build_edges();
 }
 

@@ -33,7 +33,7 @@ struct SweepView
   const std::uint8_t* kind;
   const double* tk; ///< pair p's T at tk[2p], its k at tk[2p + 1]; node i's pair is p = i
   const ConductivityFit* fits;
-  const double* source;
+  const double* source; ///< null when no node has one: the sweep adds 0 instead
   const float* inverse_capacity;
   double* flux_stiffness;
   std::size_t n;
@@ -80,7 +80,7 @@ double scalar_node(const SweepView& v, std::size_t i, double* dEdt, std::size_t&
   else
     exchange_all.template operator()<false>();
   if constexpr (Rate)
-    dEdt[i] = s + v.source[i];
+    dEdt[i] = s + (v.source ? v.source[i] : 0.0);
   if constexpr (!Bound)
     return 0.0;
   // |A_ii| + Σ_j |A_ij|
@@ -175,7 +175,10 @@ template <class V, bool Bound, bool Rate>
     if constexpr (Rate)
     {
       V source;
-      load(source, v.source + i);
+      if (v.source)
+        load(source, v.source + i);
+      else
+        splat(source, 0.0);
       store(dEdt + i, s + source);
     }
     if constexpr (Bound)
@@ -337,7 +340,7 @@ double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEd
   const SweepView v{ edges.start.data(), edges.count.data(),
     edges.far_offset.data(), edges.half_weight.data(), edges.rock.data(), op.node_kind_.data(),
     reinterpret_cast<const double*>(op.node_tk_.data()), op.fits_.data(),
-    op.model_->node_sources().data(), op.inverse_capacity_.data(), op.flux_stiffness_.data(),
+    op.any_source_ ? op.model_->node_sources().data() : nullptr, op.inverse_capacity_.data(), op.flux_stiffness_.data(),
     op.model_->n_nodes(), HeatOperator::kFluxFace, HeatOperator::kSignedWeights,
     HeatOperator::kContact };
   // Flux-boundary nodes of this range, in the same ascending order: one search per range.

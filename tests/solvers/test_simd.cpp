@@ -171,6 +171,8 @@ TEST(Simd, ConductionSweepEqualsTheScalarSweepAtEveryLevel)
       mark_layer(mesh, 4, 6); // contacts at mid-height, single-rock chunks above and below
     Rock host = waples_host();
     host.conductivity.law = Conductivity::Law::VosteenSchellschmidt;
+    // Heat production in one variant only: without any, the sweep reads no sources.
+    host.heat_production = variant == 1 ? 2e-6 : 0.0;
     const ThermalModel model(mesh, { host, basalt_with_latent() }, mesh.cell_region);
     const auto condition = [](BoundaryCondition::Kind kind, Side side, double value) {
       BoundaryCondition bc;
@@ -224,6 +226,7 @@ TEST(Simd, ConductionSweepEqualsTheScalarSweepAtEveryLevel)
       ASSERT_TRUE(std::isfinite(reference.step));
       ASSERT_EQ(reference.step, reference.step_alone);
       ASSERT_EQ(reference.flux_stiffness.empty(), one_rock);
+      ASSERT_EQ(reference.tally.source > 0.0, variant == 1);
       for (SimdLevel level : supported_simd_levels())
       {
         set_simd_level(level);

@@ -111,6 +111,8 @@ public:
   std::size_t contact_edge_entries() const;
   /// (T, k) pairs kept for the contact nodes: one per (contact node, rock).
   std::size_t contact_pairs() const { return contact_pair_node_.size(); }
+  /// Whether any node has a radiogenic source (if not, the sweep reads none).
+  bool has_sources() const { return any_source_; }
   /// Bytes this operator keeps per node (edges, capacities, flags; boundary groups apart).
   double bytes_per_node() const;
 
@@ -160,6 +162,9 @@ private:
   /// and stays a bound), 4 B less for the sweep to stream.
   std::vector<float> inverse_capacity_;
   double source_total_ = 0.0;        ///< Σ radiogenic heat of the free nodes [W]
+  /// Whether any node has a radiogenic source; if none, the sweep does not read them (8 B per
+  /// node less: models without heat production are common).
+  bool any_source_ = false;
   /**
    * The edges in SELL-4 order (sliced ELLPACK with chunks of 4 nodes; Kreutzer et al. 2014,
    * SIAM J. Sci. Comput. 36(5)): node i's s-th edge sits in slot
