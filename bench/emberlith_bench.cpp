@@ -373,8 +373,9 @@ std::function<void()> spmv_function(const Csr& a, tbb::task_arena& arena)
 //   contact pairs: per (contact node, rock) node 4, rock 1, T 8, pair out 32;
 //   rate + stable step: chunk start 1 (4 B per 4 nodes), (T, k) 16, source 8 (only if a node
 //     has one; the benchmark model has none), inverse capacity (float) 4, node kind 1, rate
-//     out 16; per edge slot (padding included) far-end offset 4 + half-weight 8; at contact nodes the edge count 2 and a rock byte per edge
-//     (the count is also read in the few other scalar chunks: not counted);
+//     out 16; per edge slot (padding included) far-end offset 4 + half-weight 8; at contact
+//     nodes the edge count 2 and a rock byte per edge (the count is also read in the few
+//     other scalar chunks: not counted);
 //   update + T(E): rate 8, E in/out 16, T in/out 16, last 1/capacity (float) in/out 8, share
 //     offset 4, per node share its rock 1 and mass 8.
 double step_bytes_per_node(const ThermalModel& model, const HeatOperator& op)

@@ -27,7 +27,7 @@ struct SweepView
 {
   const std::uint32_t* chunk_start;
   const std::uint16_t* count;
-  const std::uint32_t* far_offset; ///< of the far end's pair in tk: its T at tk[o], k at tk[o + 1]
+  const std::uint32_t* far_offset; ///< far end's pair: T at tk[offset], k at tk[offset + 1]
   const double* half_weight;
   const std::uint8_t* rock;
   const std::uint8_t* kind;
@@ -340,7 +340,8 @@ double HeatSweep::run(const HeatOperator& op, bool bound, bool rate, double* dEd
   const SweepView v{ edges.start.data(), edges.count.data(),
     edges.far_offset.data(), edges.half_weight.data(), edges.rock.data(), op.node_kind_.data(),
     reinterpret_cast<const double*>(op.node_tk_.data()), op.fits_.data(),
-    op.any_source_ ? op.model_->node_sources().data() : nullptr, op.inverse_capacity_.data(), op.flux_stiffness_.data(),
+    op.any_source_ ? op.model_->node_sources().data() : nullptr, op.inverse_capacity_.data(),
+    op.flux_stiffness_.data(),
     op.model_->n_nodes(), HeatOperator::kFluxFace, HeatOperator::kSignedWeights,
     HeatOperator::kContact };
   // Flux-boundary nodes of this range, in the same ascending order: one search per range.
