@@ -1,5 +1,7 @@
 #include "ember/geometry.h"
 
+#include "cell_faces.h"
+
 #include <Eigen/Dense>
 
 #include <algorithm>
@@ -221,32 +223,6 @@ const std::vector<CornerTet>& corner_tets(CellType type)
   throw MeshError("invalid cell type");
 }
 
-// Local faces in VTK order (vtkCell::GetFace), nodes ordered so the right-hand normal points
-// out of the cell. Checked against vtkCellValidator in ParaView 5.11.
-struct LocalFace
-{
-  int n;
-  std::array<int, 4> v;
-};
-const std::vector<LocalFace>& local_faces(CellType type)
-{
-  static const std::vector<LocalFace> tet = { { 3, { 0, 1, 3 } }, { 3, { 1, 2, 3 } },
-    { 3, { 2, 0, 3 } }, { 3, { 0, 2, 1 } } };
-  static const std::vector<LocalFace> hex = { { 4, { 0, 4, 7, 3 } }, { 4, { 1, 2, 6, 5 } },
-    { 4, { 0, 1, 5, 4 } }, { 4, { 3, 7, 6, 2 } }, { 4, { 0, 3, 2, 1 } }, { 4, { 4, 5, 6, 7 } } };
-  static const std::vector<LocalFace> wedge = { { 3, { 0, 1, 2 } }, { 3, { 3, 5, 4 } },
-    { 4, { 0, 3, 4, 1 } }, { 4, { 1, 4, 5, 2 } }, { 4, { 2, 5, 3, 0 } } };
-  static const std::vector<LocalFace> pyramid = { { 4, { 0, 3, 2, 1 } }, { 3, { 0, 1, 4 } },
-    { 3, { 1, 2, 4 } }, { 3, { 2, 3, 4 } }, { 3, { 3, 0, 4 } } };
-  switch (type)
-  {
-  case CellType::Tetrahedron: return tet;
-  case CellType::Hexahedron: return hex;
-  case CellType::Wedge: return wedge;
-  case CellType::Pyramid: return pyramid;
-  }
-  throw MeshError("invalid cell type");
-}
 
 // ---------------------------------------------------------------------------------------------
 // Cell geometry
@@ -510,54 +486,28 @@ ElementMatrices compute_element_stiffness(const Mesh& mesh)
 std::vector<BoundaryFace> find_boundary_faces(const Mesh& mesh)
 {
   check_ids(mesh);
-  struct Entry
-  {
-    std::array<std::int64_t, 4> key; ///< sorted node ids, -1 padded for triangles
-    std::int64_t cell;
-    int local;
-  };
-  std::vector<Entry> entries;
-  std::size_t n_faces = 0; // sized once (validate_mesh's face list says why)
-  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-    n_faces += local_faces(mesh.cell_types[c]).size();
-  entries.reserve(n_faces);
-  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-  {
-    const auto nodes = mesh.nodes(c);
-    const auto& faces = local_faces(mesh.cell_types[c]);
-    for (int f = 0; f < static_cast<int>(faces.size()); ++f)
-    {
-      Entry e{ { -1, -1, -1, -1 }, static_cast<std::int64_t>(c), f };
-      for (int i = 0; i < faces[f].n; ++i)
-        e.key[i] = nodes[faces[f].v[i]];
-      std::sort(e.key.begin(), e.key.begin() + faces[f].n);
-      entries.push_back(e);
-    }
-  }
-  std::sort(entries.begin(), entries.end(), [](const Entry& a, const Entry& b) {
-    return std::tie(a.key, a.cell, a.local) < std::tie(b.key, b.cell, b.local);
-  });
-
-  // A key that occurs once is a face owned by exactly one cell. Entries stay in key order here;
-  // the (cell, local) ordering is restored at the end.
-  std::vector<Entry> owned;
-  for (std::size_t i = 0; i < entries.size();)
+  // A node set that occurs once is a face owned by exactly one cell. The faces come sorted by
+  // node set; the owned ones are put back in (cell, local face) order.
+  const std::vector<FaceEntry> faces = sorted_cell_faces(mesh);
+  std::vector<FaceEntry> owned;
+  for (std::size_t i = 0; i < faces.size();)
   {
     std::size_t j = i + 1;
-    while (j < entries.size() && entries[j].key == entries[i].key)
+    while (j < faces.size() && faces[j].same_face(faces[i]))
       ++j;
     if (j - i == 1)
-      owned.push_back(entries[i]);
+      owned.push_back(faces[i]);
     i = j;
   }
-  std::sort(owned.begin(), owned.end(),
-    [](const Entry& a, const Entry& b) { return std::tie(a.cell, a.local) < std::tie(b.cell, b.local); });
+  std::sort(owned.begin(), owned.end(), [](const FaceEntry& a, const FaceEntry& b) {
+    return std::tie(a.cell, a.local) < std::tie(b.cell, b.local);
+  });
 
   std::vector<BoundaryFace> result;
   result.reserve(owned.size());
-  for (const Entry& e : owned)
+  for (const FaceEntry& e : owned)
   {
-    const auto nodes = mesh.nodes(static_cast<std::size_t>(e.cell));
+    const auto nodes = mesh.nodes(e.cell);
     const LocalFace& lf = local_faces(mesh.cell_types[e.cell])[e.local];
     std::array<std::int64_t, 4> ids{ -1, -1, -1, -1 };
     for (int i = 0; i < lf.n; ++i)

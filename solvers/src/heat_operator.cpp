@@ -116,9 +116,9 @@ void validate(const BoundaryCondition& bc, std::size_t index)
 HeatOperator::HeatOperator(const ThermalModel& model, std::vector<BoundaryCondition> conditions)
   : model_(&model)
 {
-  if (model.n_nodes() > std::numeric_limits<std::uint32_t>::max())
+  if (model.n_nodes() > std::numeric_limits<std::int32_t>::max()) // edges: 2 × pair index
     throw std::invalid_argument("mesh too large for the heat operator: " +
-      std::to_string(model.n_nodes()) + " nodes (at most 2^32 - 1)");
+      std::to_string(model.n_nodes()) + " nodes (at most 2^31 - 1)");
   for (std::size_t i = 0; i < conditions.size(); ++i)
     validate(conditions[i], i);
   const Mesh& mesh = model.mesh();

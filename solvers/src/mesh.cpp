@@ -2,6 +2,8 @@
 
 #include "ember/geometry.h"
 
+#include "cell_faces.h"
+
 #include <algorithm>
 #include <cmath>
 #include <map>
@@ -57,32 +59,6 @@ constexpr std::uint8_t vtk_tetra = 10, vtk_voxel = 11, vtk_hexahedron = 12, vtk_
 // face. hex node i = voxel node voxel_to_hex[i].
 constexpr std::array<int, 8> voxel_to_hex = { 0, 1, 3, 2, 4, 5, 7, 6 };
 
-// Local faces of each cell type as node sets (orientation is irrelevant for connectivity;
-// geometry.cpp holds the same faces with outward VTK ordering).
-struct FaceNodes
-{
-  int n;
-  std::array<int, 4> v;
-};
-const std::vector<FaceNodes>& faces_of(CellType type)
-{
-  static const std::vector<FaceNodes> tet = { { 3, { 0, 1, 3 } }, { 3, { 1, 2, 3 } },
-    { 3, { 2, 0, 3 } }, { 3, { 0, 2, 1 } } };
-  static const std::vector<FaceNodes> hex = { { 4, { 0, 4, 7, 3 } }, { 4, { 1, 2, 6, 5 } },
-    { 4, { 0, 1, 5, 4 } }, { 4, { 3, 7, 6, 2 } }, { 4, { 0, 3, 2, 1 } }, { 4, { 4, 5, 6, 7 } } };
-  static const std::vector<FaceNodes> wedge = { { 3, { 0, 1, 2 } }, { 3, { 3, 5, 4 } },
-    { 4, { 0, 3, 4, 1 } }, { 4, { 1, 4, 5, 2 } }, { 4, { 2, 5, 3, 0 } } };
-  static const std::vector<FaceNodes> pyramid = { { 4, { 0, 3, 2, 1 } }, { 3, { 0, 1, 4 } },
-    { 3, { 1, 2, 4 } }, { 3, { 2, 3, 4 } }, { 3, { 3, 0, 4 } } };
-  switch (type)
-  {
-  case CellType::Tetrahedron: return tet;
-  case CellType::Hexahedron: return hex;
-  case CellType::Wedge: return wedge;
-  case CellType::Pyramid: return pyramid;
-  }
-  throw MeshError("invalid cell type");
-}
 
 /// Union-find with path halving; small enough to keep local.
 struct DisjointSets
@@ -287,36 +263,12 @@ MeshReport validate_mesh(const Mesh& mesh)
     if (!referenced[p])
       report.unreferenced_points.push_back(static_cast<std::int64_t>(p));
 
-  // Cells are face-neighbours when they share a face with the same node set: sort all
-  // faces by their sorted node ids and unite cells of equal keys.
-  struct Entry
-  {
-    std::array<std::int64_t, 4> key;
-    std::int64_t cell;
-  };
-  std::vector<Entry> faces;
-  // Sized once: on 10⁶-node tetrahedra this is ~1 GB, whose growth by doubling was the
-  // set-up's largest copy (bench/README.md, set-up time).
-  std::size_t n_faces = 0;
-  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-    n_faces += faces_of(mesh.cell_types[c]).size();
-  faces.reserve(n_faces);
-  for (std::size_t c = 0; c < mesh.n_cells(); ++c)
-  {
-    const auto nodes = mesh.nodes(c);
-    for (const auto& f : faces_of(mesh.cell_types[c]))
-    {
-      Entry e{ { -1, -1, -1, -1 }, static_cast<std::int64_t>(c) };
-      for (int i = 0; i < f.n; ++i)
-        e.key[i] = nodes[f.v[i]];
-      std::sort(e.key.begin(), e.key.begin() + f.n);
-      faces.push_back(e);
-    }
-  }
-  std::sort(faces.begin(), faces.end(), [](const Entry& a, const Entry& b) { return a.key < b.key; });
+  // Cells are face-neighbours when they share a face with the same node set: unite the cells
+  // of each run of equal node sets in the sorted faces.
+  const std::vector<FaceEntry> faces = sorted_cell_faces(mesh);
   DisjointSets sets(mesh.n_cells());
   for (std::size_t i = 1; i < faces.size(); ++i)
-    if (faces[i].key == faces[i - 1].key)
+    if (faces[i].same_face(faces[i - 1]))
       sets.unite(faces[i].cell, faces[i - 1].cell);
 
   // Number pieces in order of their first cell so the numbering is deterministic.

@@ -6,6 +6,7 @@
 #include <gtest/gtest.h>
 
 #include <algorithm>
+#include <numeric>
 
 using namespace ember;
 using namespace ember::testing;
@@ -79,6 +80,41 @@ TEST(Operator, UniformSourceHeatsUniformly)
       EXPECT_NEAR(T, expected, 1e-9 * expected) << integrator_name(kind);
     EXPECT_LT(std::abs(result.ledger.relative_imbalance()), 1e-12) << integrator_name(kind);
   }
+}
+
+// An emplacement can bring the model its first heat source: after refresh() the rate at a
+// uniform temperature is each node's source and sums to A × the body's volume (the operator
+// skips reading sources while no node has one, so it must notice).
+TEST(Operator, RefreshPicksUpTheFirstHeatSource)
+{
+  Mesh mesh = make_box_tet({ 0, 0, 0 }, { 3, 2, 2 }, { 3, 2, 2 });
+  const Rock host = simple_rock("shale", 2.0, 2500, 900);
+  Rock granite = simple_rock("granite", 3.0, 2700, 800);
+  granite.heat_production = 3e-6;
+  ThermalModel model(mesh, { host, granite }, std::vector<int>(mesh.n_cells(), 0));
+  HeatOperator op(model, {});
+  ASSERT_FALSE(op.has_sources());
+  tbb::task_arena arena(2);
+  const std::vector<double> T(mesh.n_points(), 20.0);
+  std::vector<double> rate;
+  PowerTally tally;
+  op.rate(T, rate, tally, arena);
+  for (double r : rate)
+    ASSERT_EQ(r, 0.0);
+  std::vector<std::int64_t> all(mesh.n_cells());
+  std::iota(all.begin(), all.end(), 0);
+  model.set_cell_rock(all, 1);
+  op.refresh();
+  ASSERT_TRUE(op.has_sources());
+  op.rate(T, rate, tally, arena);
+  double total = 0.0;
+  for (std::size_t i = 0; i < rate.size(); ++i)
+  {
+    EXPECT_NEAR(rate[i], model.node_source(i), 1e-15) << "node " << i;
+    total += rate[i];
+  }
+  EXPECT_NEAR(total, 3e-6 * 3 * 2 * 2, 1e-15);
+  EXPECT_NEAR(tally.source, 3e-6 * 3 * 2 * 2, 1e-15);
 }
 
 // verification.md §11 (DMP): lumped Q1 on cubes has non-positive off-diagonals, so an explicit

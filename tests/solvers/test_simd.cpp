@@ -152,7 +152,8 @@ struct HeatOperatorProbe
 // weights: the bound runs those chunks through the scalar code) and not (the bound's vector
 // path), rows of unequal length (padded chunks), two rocks with k(T) (contact nodes and their
 // per-rock pairs), radiation, heat-flow and fixed-temperature boundaries, and a node count that
-// leaves the last chunk of 4 short. A third case, one rock and insulated, puts the largest
+// leaves the last chunk of 4 short; the regular case has heat production (the sweep reads
+// sources only when some node has one). A third case, one rock and insulated, puts the largest
 // rate, and so the step, in the vector chunks (with radiation it sits at the surface). Temperatures are finite: a padding slot turns an infinite
 // T into NaN where the scalar code gives ±inf (simd.h).
 TEST(Simd, ConductionSweepEqualsTheScalarSweepAtEveryLevel)
@@ -161,7 +162,7 @@ TEST(Simd, ConductionSweepEqualsTheScalarSweepAtEveryLevel)
   for (int variant = 0; variant < 3; ++variant)
   {
     const bool distorted = variant == 0, one_rock = variant == 2;
-    SCOPED_TRACE(distorted ? "distorted" : one_rock ? "one rock, insulated" : "regular");
+    SCOPED_TRACE(distorted ? "distorted" : one_rock ? "one rock, insulated" : "regular, heat production");
     Mesh mesh = make_box_tet({ 0, 0, 0 }, { 6, 6, 10 }, { 6, 6, 10 });
     const std::size_t n = mesh.n_points();
     ASSERT_NE(n % 4, 0u) << "the last chunk should be short";
@@ -187,6 +188,7 @@ TEST(Simd, ConductionSweepEqualsTheScalarSweepAtEveryLevel)
     const HeatOperator op(model,
       one_rock ? std::vector<BoundaryCondition>{} : std::vector<BoundaryCondition>{ top, base, side });
     ASSERT_EQ(op.contact_nodes() > 0, !one_rock);
+    ASSERT_EQ(op.has_sources(), variant == 1);
     ASSERT_GT(op.edge_slots(), op.edge_entries()) << "some chunks should be padded";
     tbb::task_arena arena(2);
     int negative = 0; // A_ij < 0: a negative weight
