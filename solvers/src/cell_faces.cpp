@@ -57,10 +57,30 @@ std::vector<FaceEntry> sorted_cell_faces(const Mesh& mesh)
         static_cast<std::uint32_t>(f) });
     }
   }
+  // By node set alone: the callers look only at runs of equal sets, whose order within a run
+  // does not change what they find.
   std::sort(faces.begin(), faces.end(), [](const FaceEntry& a, const FaceEntry& b) {
-    return std::tie(a.high, a.low, a.cell, a.local) < std::tie(b.high, b.low, b.cell, b.local);
+    return a.high != b.high ? a.high < b.high : a.low < b.low;
   });
   return faces;
+}
+
+std::vector<CellFace> faces_of_one_cell(const std::vector<FaceEntry>& sorted)
+{
+  std::vector<CellFace> owned;
+  for (std::size_t i = 0; i < sorted.size();)
+  {
+    std::size_t j = i + 1;
+    while (j < sorted.size() && sorted[j].same_face(sorted[i]))
+      ++j;
+    if (j - i == 1)
+      owned.push_back({ sorted[i].cell, sorted[i].local });
+    i = j;
+  }
+  std::sort(owned.begin(), owned.end(), [](const CellFace& a, const CellFace& b) {
+    return std::tie(a.cell, a.local) < std::tie(b.cell, b.local);
+  });
+  return owned;
 }
 
 } // namespace ember

@@ -34,9 +34,12 @@ struct FaceEntry
   bool same_face(const FaceEntry& other) const { return high == other.high && low == other.low; }
 };
 
-/// Every face of every cell, sorted by node set (then cell, local face), so the faces that
-/// cells share lie side by side. The node ids must be valid; throws MeshError if the mesh has
+/// Every face of every cell, sorted by node set, so the faces that cells share lie side by
+/// side. The node ids must be valid; throws MeshError if the mesh has
 /// 2^32 − 1 or more points or cells.
 std::vector<FaceEntry> sorted_cell_faces(const Mesh& mesh);
+
+/// The faces of sorted_cell_faces() that only one cell has, in (cell, local face) order.
+std::vector<CellFace> faces_of_one_cell(const std::vector<FaceEntry>& sorted);
 
 } // namespace ember

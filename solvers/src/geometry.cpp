@@ -486,33 +486,22 @@ ElementMatrices compute_element_stiffness(const Mesh& mesh)
 std::vector<BoundaryFace> find_boundary_faces(const Mesh& mesh)
 {
   check_ids(mesh);
-  // A node set that occurs once is a face owned by exactly one cell. The faces come sorted by
-  // node set; the owned ones are put back in (cell, local face) order.
-  const std::vector<FaceEntry> faces = sorted_cell_faces(mesh);
-  std::vector<FaceEntry> owned;
-  for (std::size_t i = 0; i < faces.size();)
-  {
-    std::size_t j = i + 1;
-    while (j < faces.size() && faces[j].same_face(faces[i]))
-      ++j;
-    if (j - i == 1)
-      owned.push_back(faces[i]);
-    i = j;
-  }
-  std::sort(owned.begin(), owned.end(), [](const FaceEntry& a, const FaceEntry& b) {
-    return std::tie(a.cell, a.local) < std::tie(b.cell, b.local);
-  });
+  return boundary_face_geometry(mesh, faces_of_one_cell(sorted_cell_faces(mesh)));
+}
 
+std::vector<BoundaryFace> boundary_face_geometry(const Mesh& mesh,
+  const std::vector<CellFace>& faces)
+{
   std::vector<BoundaryFace> result;
-  result.reserve(owned.size());
-  for (const FaceEntry& e : owned)
+  result.reserve(faces.size());
+  for (const CellFace& f : faces)
   {
-    const auto nodes = mesh.nodes(e.cell);
-    const LocalFace& lf = local_faces(mesh.cell_types[e.cell])[e.local];
+    const auto nodes = mesh.nodes(f.cell);
+    const LocalFace& lf = local_faces(mesh.cell_types[f.cell])[f.local];
     std::array<std::int64_t, 4> ids{ -1, -1, -1, -1 };
     for (int i = 0; i < lf.n; ++i)
       ids[i] = nodes[lf.v[i]];
-    result.push_back(face_geometry(mesh, e.cell, ids, lf.n));
+    result.push_back(face_geometry(mesh, f.cell, ids, lf.n));
   }
   return result;
 }

@@ -122,7 +122,7 @@ HeatOperator::HeatOperator(const ThermalModel& model, std::vector<BoundaryCondit
   for (std::size_t i = 0; i < conditions.size(); ++i)
     validate(conditions[i], i);
   const Mesh& mesh = model.mesh();
-  const std::vector<BoundaryFace> faces = find_boundary_faces(mesh);
+  const std::vector<BoundaryFace> faces = boundary_face_geometry(mesh, model.boundary_faces());
   std::map<std::int64_t, double> fixed;
   for (const BoundaryCondition& bc : conditions)
   {

@@ -270,6 +270,7 @@ MeshReport validate_mesh(const Mesh& mesh)
   for (std::size_t i = 1; i < faces.size(); ++i)
     if (faces[i].same_face(faces[i - 1]))
       sets.unite(faces[i].cell, faces[i - 1].cell);
+  report.boundary_faces = faces_of_one_cell(faces);
 
   // Number pieces in order of their first cell so the numbering is deterministic.
   std::map<std::int64_t, std::int64_t> piece_of_root;

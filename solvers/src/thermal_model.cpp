@@ -29,7 +29,7 @@ ThermalModel::ThermalModel(const Mesh& mesh, std::vector<Rock> rocks, std::vecto
     if (cell_rock_[c] < 0 || cell_rock_[c] >= static_cast<int>(rocks_.size()))
       throw PropertyError("cell " + std::to_string(c) + " (region " +
         std::to_string(mesh.cell_region[c]) + ") has no rock type");
-  validate_mesh(mesh);
+  boundary_faces_ = validate_mesh(mesh).boundary_faces;
   cell_node_volume_ = compute_nodal_volumes(mesh);
   build_shares();
 }

@@ -697,3 +697,28 @@ TEST(Geometry, MixedMeshIsConnectedAndHasBoxBoundary)
   EXPECT_EQ(select_faces(m, faces, Side::Top, { 2 }).size(), 2u);
   EXPECT_EQ(select_faces(m, faces, Side::Sides, { 0 }).size(), 3u);
 }
+
+// validate_mesh reports the boundary faces it meets in its face sort, which the heat operator
+// uses instead of sorting every face again: the same faces, in the same order, with the same
+// geometry as find_boundary_faces, on every cell type.
+TEST(Geometry, ValidateMeshReportsTheBoundaryFaces)
+{
+  for (const Mesh& m : { mixed_mesh(), cube_of_wedges(0), cube_of_pyramids(0),
+         make_box_tet({ 0, 0, 0 }, { 3, 2, 1 }, { 3, 2, 1 }) })
+  {
+    const MeshReport r = validate_mesh(m);
+    const auto expected = find_boundary_faces(m);
+    const auto faces = boundary_face_geometry(m, r.boundary_faces);
+    ASSERT_EQ(faces.size(), expected.size());
+    ASSERT_FALSE(faces.empty());
+    for (std::size_t f = 0; f < faces.size(); ++f)
+    {
+      EXPECT_EQ(faces[f].cell, expected[f].cell) << "face " << f;
+      EXPECT_EQ(faces[f].nodes, expected[f].nodes) << "face " << f;
+      EXPECT_EQ(faces[f].area, expected[f].area) << "face " << f;
+    }
+  }
+  // Kuhn tetrahedra split each square of a 3 × 2 × 1 box's surface in two: 2 (6 + 3 + 2) × 2.
+  EXPECT_EQ(validate_mesh(make_box_tet({ 0, 0, 0 }, { 3, 2, 1 }, { 3, 2, 1 })).boundary_faces.size(),
+    44u);
+}

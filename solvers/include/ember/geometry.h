@@ -57,6 +57,9 @@ struct BoundaryFace
 
 /// All boundary faces, sorted by (cell, local face index) so the order is deterministic.
 std::vector<BoundaryFace> find_boundary_faces(const Mesh& mesh);
+/// The same faces' geometry from a list validate_mesh() has found (MeshReport::boundary_faces).
+std::vector<BoundaryFace> boundary_face_geometry(const Mesh& mesh,
+  const std::vector<CellFace>& faces);
 
 enum class Side : std::uint8_t
 {

@@ -75,12 +75,23 @@ Mesh mesh_from_vtk_arrays(std::vector<Point> points, std::span<const std::uint8_
   std::span<const std::int64_t> offsets, std::span<const std::int64_t> connectivity,
   std::span<const int> regions);
 
+/// A face of a cell: the cell and the face's index in its cell type's VTK face order.
+struct CellFace
+{
+  std::uint32_t cell;
+  std::uint32_t local;
+};
+
 /// What validate_mesh() found. Problems that make the mesh unusable are thrown, not reported.
 struct MeshReport
 {
   std::vector<std::int64_t> unreferenced_points; ///< allowed; they get no equation
   std::size_t n_pieces = 0;                      ///< face-connected components (1 = connected)
   std::vector<std::int64_t> piece_of_cell;       ///< component index per cell
+  /// Faces owned by one cell only (the outer surface), in (cell, local face) order: the same
+  /// faces find_boundary_faces() gives, found in the same sort (so the operator need not sort
+  /// every face again).
+  std::vector<CellFace> boundary_faces;
 };
 
 /**

@@ -83,6 +83,8 @@ public:
   /// Each rock's enthalpy fit (h, dh/dT and their bounds), indexed like rocks().
   const std::vector<EnthalpyFit>& enthalpy_fits() const { return enthalpy_; }
   std::size_t n_nodes() const { return mesh_->n_points(); }
+  /// The mesh's outer faces as the constructor's validate_mesh() found them (cell, local face).
+  const std::vector<CellFace>& boundary_faces() const { return boundary_faces_; }
 
   /// Shares of node i (the rock types of its cells, ascending by first appearance).
   NodeShares shares(std::size_t node) const
@@ -204,6 +206,7 @@ private:
   }
 
   const Mesh* mesh_;
+  std::vector<CellFace> boundary_faces_;
   std::vector<double> cell_node_volume_;
   std::vector<Rock> rocks_;
   std::vector<EnthalpyFit> enthalpy_; ///< per rock
