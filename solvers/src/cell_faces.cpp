@@ -1,5 +1,7 @@
 #include "cell_faces.h"
 
+#include "huge_pages.h"
+
 #include <algorithm>
 #include <limits>
 #include <string>
@@ -40,7 +42,7 @@ std::vector<FaceEntry> sorted_cell_faces(const Mesh& mesh)
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
     n_faces += local_faces(mesh.cell_types[c]).size();
   std::vector<FaceEntry> faces;
-  faces.reserve(n_faces);
+  reserve_on_huge_pages(faces, n_faces);
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
   {
     const auto nodes = mesh.nodes(c);

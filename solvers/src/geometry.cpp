@@ -1,6 +1,7 @@
 #include "ember/geometry.h"
 
 #include "cell_faces.h"
+#include "huge_pages.h"
 
 #include <Eigen/Dense>
 
@@ -405,7 +406,9 @@ double add_nodal_volumes(
 std::vector<double> compute_nodal_volumes(const Mesh& mesh)
 {
   check_ids(mesh);
-  std::vector<double> nodal_volume(mesh.cell_nodes.size(), 0.0);
+  std::vector<double> nodal_volume;
+  reserve_on_huge_pages(nodal_volume, mesh.cell_nodes.size());
+  nodal_volume.assign(mesh.cell_nodes.size(), 0.0);
   std::vector<std::int64_t> bad;
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)
   {
@@ -472,6 +475,7 @@ ElementMatrices compute_element_stiffness(const Mesh& mesh)
     const auto n = static_cast<std::int64_t>(mesh.nodes(c).size());
     em.stiffness_offsets[c + 1] = em.stiffness_offsets[c] + n * n;
   }
+  reserve_on_huge_pages(em.stiffness, static_cast<std::size_t>(em.stiffness_offsets.back()));
   em.stiffness.assign(static_cast<std::size_t>(em.stiffness_offsets.back()), 0.0);
   std::vector<std::int64_t> bad;
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)

@@ -3,6 +3,7 @@
 #include "ember/geometry.h"
 
 #include "cell_faces.h"
+#include "huge_pages.h"
 
 #include <algorithm>
 #include <cmath>
@@ -160,6 +161,14 @@ std::span<const std::array<int, 2>> cell_edges(CellType type)
   throw MeshError("invalid cell type " + std::to_string(static_cast<int>(type)));
 }
 
+void Mesh::reserve_cells(std::size_t cells, std::size_t entries)
+{
+  reserve_on_huge_pages(cell_types, cells);
+  reserve_on_huge_pages(cell_nodes, entries);
+  reserve_on_huge_pages(cell_offsets, cells + 1);
+  reserve_on_huge_pages(cell_region, cells);
+}
+
 void Mesh::add_cell(CellType type, std::span<const std::int64_t> node_ids, int region)
 {
   // A wrong count would shift every later cell's nodes in the CSR arrays, so refuse it here.
@@ -198,6 +207,7 @@ Mesh mesh_from_vtk_arrays(std::vector<Point> points, std::span<const std::uint8_
 
   Mesh mesh;
   mesh.points = std::move(points);
+  mesh.reserve_cells(n, connectivity.size());
   for (std::size_t c = 0; c < n; ++c)
   {
     const auto c_id = static_cast<std::int64_t>(c);
@@ -318,6 +328,9 @@ Mesh make_graded_box_hex(
   auto id = [&](std::int64_t i, std::int64_t j, std::int64_t k) { return i + nx * (j + ny * k); };
 
   Mesh mesh;
+  const std::size_t cells = (xs.size() - 1) * (ys.size() - 1) * (zs.size() - 1);
+  reserve_on_huge_pages(mesh.points, xs.size() * ys.size() * zs.size());
+  mesh.reserve_cells(cells, 8 * cells);
   for (const double z : zs)
     for (const double y : ys)
       for (const double x : xs)
@@ -369,6 +382,7 @@ Mesh make_box_tet(std::array<double, 3> lo, std::array<double, 3> hi, std::array
 
   Mesh mesh;
   mesh.points = hexes.points;
+  mesh.reserve_cells(hexes.n_cells() * tets.size(), hexes.n_cells() * tets.size() * 4);
   for (std::size_t c = 0; c < hexes.n_cells(); ++c)
   {
     const auto hex = hexes.nodes(c);

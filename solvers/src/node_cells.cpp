@@ -1,5 +1,7 @@
 #include "ember/node_cells.h"
 
+#include "huge_pages.h"
+
 #include <limits>
 #include <string>
 
@@ -17,6 +19,7 @@ NodeCells::NodeCells(const Mesh& mesh)
     ++offsets_[node + 1];
   for (std::size_t i = 0; i < n; ++i)
     offsets_[i + 1] += offsets_[i];
+  reserve_on_huge_pages(slots_, mesh.cell_nodes.size());
   slots_.resize(mesh.cell_nodes.size());
   std::vector<std::uint32_t> fill(offsets_.begin(), offsets_.end() - 1);
   for (std::size_t c = 0; c < mesh.n_cells(); ++c)

@@ -63,6 +63,9 @@ struct Mesh
 
   /// Append a cell; node ids must already exist (checked by validate()).
   void add_cell(CellType type, std::span<const std::int64_t> node_ids, int region);
+  /// Room for `cells` cells with `entries` node ids in all, so that adding them does not
+  /// reallocate (large meshes: on transparent huge pages where the system allows).
+  void reserve_cells(std::size_t cells, std::size_t entries);
 };
 
 /**
