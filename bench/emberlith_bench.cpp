@@ -408,8 +408,10 @@ StateBytes state_bytes_per_node(const ThermalModel& model, const HeatOperator& o
     shares += model.shares(i).size();
   StateBytes b;
   b.mesh = (n * 24 + cells * (1 + 8 + 4) + slots * 8) / n;
-  b.model = (cells * 4 + slots * 8 + (n + 1) * 4 + shares * (1 + 8 + 8) + n * 16) /
-    n; // cell rock, cell-node volumes, share offsets, share rock + mass + volume, node volume + source
+  // cell rock, cell-node volumes, share offsets, share rock + mass + volume, node volume +
+  // source, the outer faces (cell, local face)
+  b.model = (cells * 4 + slots * 8 + (n + 1) * 4 + shares * (1 + 8 + 8) + n * 16 +
+              model.boundary_faces().size() * double(sizeof(CellFace))) / n;
   b.op = op.bytes_per_node();
   // E, T + integrator: its vectors and the kept inverse capacities (float)
   b.vectors = 8 * 2 + 8 * (kind == IntegratorKind::RKL2 ? 6 : 1) + 4;

@@ -224,7 +224,6 @@ const std::vector<CornerTet>& corner_tets(CellType type)
   throw MeshError("invalid cell type");
 }
 
-
 // ---------------------------------------------------------------------------------------------
 // Cell geometry
 
