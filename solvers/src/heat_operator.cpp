@@ -318,6 +318,7 @@ void HeatOperator::refresh()
   const ThermalModel& model = *model_;
   inverse_capacity_.assign(model.n_nodes(), 0.0f);
   source_total_ = 0.0; // sequential: one fixed summation order
+  any_source_ = false;
   const std::vector<EnthalpyFit>& fits = model.enthalpy_fits();
   for (std::size_t i = 0; i < model.n_nodes(); ++i)
   {
@@ -328,9 +329,8 @@ void HeatOperator::refresh()
       inverse_capacity_[i] = round_up_to_float(1.0 / min_capacity);
     if (!(node_kind_[i] & kHeld))
       source_total_ += model.node_source(i);
+    any_source_ = any_source_ || model.node_source(i) != 0.0; // held nodes too: the sweep adds it
   }
-  const std::vector<double>& sources = model.node_sources();
-  any_source_ = std::any_of(sources.begin(), sources.end(), [](double q) { return q != 0.0; });
   build_edges();
 }
 
